@@ -1,0 +1,69 @@
+import { defineConfig } from '@playwright/test';
+import { existsSync, mkdirSync, rmSync } from 'node:fs';
+import { resolve } from 'node:path';
+
+// The suite runs against the built app (`node build`) on a fresh database. E2E_DEV=1 runs it
+// against `vite dev` instead, and E2E_PORT picks the port, so several people can run it at once.
+const port = Number(process.env.E2E_PORT ?? 4173);
+const origin = `http://localhost:${port}`;
+const dataDir = resolve(`e2e/.data/${port}`);
+rmSync(dataDir, { recursive: true, force: true });
+mkdirSync(dataDir, { recursive: true });
+
+const chromium = process.env.CHROMIUM_PATH ?? '/usr/bin/chromium';
+if (!existsSync(chromium)) {
+	throw new Error(
+		`Browser tests need Chromium at ${chromium}. Install it with "sudo apt-get install -y chromium" ` +
+			'or point CHROMIUM_PATH at a Chromium or Chrome binary.'
+	);
+}
+
+const env = {
+	PORT: String(port),
+	ORIGIN: origin,
+	BETTER_AUTH_URL: origin,
+	BETTER_AUTH_SECRET: 'e2e-secret-e2e-secret-e2e-secret-0123',
+	DATABASE_URL: `file:${dataDir}/padproof.db`,
+	UPLOADS_DIR: `${dataDir}/uploads`,
+	MAIL_OUTBOX_DIR: `${dataDir}/outbox`,
+	PADPROOF_DATA_DIR: dataDir,
+	PADPROOF_DEMO: '1',
+	PADPROOF_RATE_LIMIT: 'off'
+};
+
+export default defineConfig({
+	testDir: '.',
+	outputDir: '../test-results',
+	fullyParallel: false,
+	workers: 1,
+	retries: process.env.CI ? 1 : 0,
+	timeout: 60_000,
+	reporter: process.env.CI ? [['list']] : [['list']],
+	use: {
+		baseURL: origin,
+		trace: 'retain-on-failure',
+		launchOptions: {
+			executablePath: chromium,
+			args: [
+				'--no-sandbox',
+				'--disable-gpu',
+				'--disable-quic',
+				'--no-first-run',
+				'--disable-background-networking',
+				'--disable-component-update',
+				'--disable-sync',
+				'--autoplay-policy=no-user-gesture-required'
+			]
+		}
+	},
+	webServer: {
+		command: process.env.E2E_DEV
+			? `npx vite dev --port ${port} --strictPort`
+			: 'npm run build && node build',
+		cwd: '..',
+		url: origin,
+		timeout: 240_000,
+		reuseExistingServer: false,
+		env
+	}
+});
