@@ -163,3 +163,73 @@ export interface RigChange {
 	from: unknown;
 	to: unknown;
 }
+
+// ---- Additions (issue 3). Everything above is unchanged; these are the engine's outputs. ----
+
+/** A count step that hit 0 or its counter's max (DESIGN.md §4.3): recorded, never silent. */
+export interface Clamp {
+	t: number;
+	event: number;
+	counter: string;
+	binding: number; // index into mapping.bindings
+	step: number; // index into that binding's steps
+	attempted: number; // the value the step asked for
+	value: number; // the value it got
+}
+
+/** What `applyEvent` returns: the next state (structurally shared) and what changed. */
+export interface StepResult {
+	state: RigState;
+	changes: RigChange[];
+	clamps: Clamp[];
+}
+
+/** One stretch of time in which a rack is audible on a deck (DESIGN.md §4.4). */
+export interface AudibleInterval {
+	rack: number; // 1-based
+	deck: DeckId;
+	start: number;
+	end: number | null; // null: still audible when the events run out
+	startEvent: number;
+	endEvent: number | null;
+}
+
+export interface Timeline {
+	changes: RigChange[];
+	audible: AudibleInterval[];
+	clamps: Clamp[];
+	final: RigState;
+	/** Event indexes in the order they were applied (quantized presses can land later). */
+	order: number[];
+}
+
+export const FINDING_KINDS = ['dropout', 'stuck', 'leak', 'clash', 'drift', 'clamp'] as const;
+export type FindingKind = (typeof FINDING_KINDS)[number];
+
+export interface Finding {
+	kind: FindingKind;
+	start: number;
+	end: number | null; // null: still going when the events run out
+	event: number; // index of the causing input event
+	binding: number | null; // index into mapping.bindings
+	input: string | null;
+	deck: DeckId | null;
+	rack: number | null; // 1-based
+	counter: string | null;
+	message: string;
+}
+
+/** A recorded rehearsal (our own format, version 1). Times are ms from `startedAt`. */
+export interface SessionEvent {
+	t: number;
+	midi?: number[]; // the raw message bytes, when it came from a device
+	input: { input: string; type: 'press' | 'release' | 'turn'; value?: number } | null; // null: unmapped
+}
+
+export interface SessionDocument {
+	version: 1;
+	tempo: number;
+	startedAt: string; // ISO 8601
+	mapping?: string;
+	events: SessionEvent[];
+}

@@ -1,0 +1,244 @@
+// The mapping document, version 1 (our own format). `parseMapping` is the only way an outside
+// mapping enters the engine: it returns the typed Mapping or every problem at once, each with a
+// readable path (`bindings[2].steps[0].target.rack`) and a sentence a performer can act on.
+// Cross-field rules (inputs exist, counters exist, decks within the deck count, the action fits
+// the target, the value fits the target) live here so the engine can trust what it is given.
+import { z } from 'zod';
+import {
+	ACTIONS,
+	DECK_IDS,
+	EFFECT_IDS,
+	INPUT_KINDS,
+	INTENTS,
+	PARAM_COUNT,
+	PHASES,
+	QUANTIZE,
+	RACK_COUNT,
+	RACK_MODES,
+	SLOT_COUNT,
+	type Mapping,
+	type Step
+} from './types';
+
+export interface Problem {
+	path: string;
+	message: string;
+}
+export type ParseResult<T> = { ok: true; value: T } | { ok: false; problems: Problem[] };
+export type MappingResult = { ok: true; mapping: Mapping } | { ok: false; problems: Problem[] };
+
+const whole = (min: number, max: number) => z.number().int().min(min).max(max);
+const unit = z.number().min(0).max(1);
+const id = z.string().trim().min(1).max(64);
+const deckId = z.enum(DECK_IDS);
+const rack = whole(1, RACK_COUNT);
+const slot = whole(1, SLOT_COUNT);
+
+export const targetSchema = z.discriminatedUnion('kind', [
+	z.object({ kind: z.literal('rack-on'), rack }),
+	z.object({ kind: z.literal('rack-mode'), rack }),
+	z.object({ kind: z.literal('rack-mix'), rack }),
+	z.object({ kind: z.literal('rack-route'), rack, deck: deckId }),
+	z.object({ kind: z.literal('slot-effect'), rack, slot }),
+	z.object({ kind: z.literal('slot-on'), rack, slot }),
+	z.object({ kind: z.literal('slot-amount'), rack, slot }),
+	z.object({ kind: z.literal('focus-param'), rack, param: whole(1, PARAM_COUNT) }),
+	z.object({ kind: z.literal('deck-play'), deck: deckId }),
+	z.object({ kind: z.literal('counter'), counter: id })
+]);
+
+const guardSchema = z.object({
+	counter: id,
+	op: z.enum(['=', '!=', '<', '<=', '>', '>=']),
+	value: z.number().int()
+});
+
+export const stepSchema = z.object({
+	target: targetSchema,
+	action: z.enum(ACTIONS),
+	value: z.union([z.number(), z.enum(RACK_MODES), z.enum(EFFECT_IDS), z.null()]).optional(),
+	phase: z.enum(PHASES).optional(),
+	guards: z.array(guardSchema).max(4).optional()
+});
+
+const inputSchema = z.object({
+	id,
+	kind: z.enum(INPUT_KINDS),
+	label: z.string().max(64).optional(),
+	channel: whole(1, 16),
+	note: whole(0, 127).optional(),
+	cc: whole(0, 127).optional(),
+	row: whole(0, 63).optional(),
+	col: whole(0, 63).optional(),
+	led: z
+		.object({ note: whole(0, 127), on: whole(0, 127).optional(), off: whole(0, 127).optional() })
+		.optional()
+});
+
+const counterSchema = z.object({
+	id,
+	label: z.string().max(64).optional(),
+	max: whole(1, 127).default(15),
+	rest: whole(0, 127).default(0)
+});
+
+const bindingSchema = z.object({
+	input: id,
+	label: z.string().max(64).optional(),
+	intent: z.enum(INTENTS).optional(),
+	deck: deckId.optional(),
+	group: id.optional(),
+	quantize: z.enum(QUANTIZE).optional(),
+	steps: z.array(stepSchema).max(64)
+});
+
+export const mappingSchema = z
+	.object({
+		version: z.literal(1),
+		name: z.string().trim().min(1).max(120),
+		decks: z.literal([2, 4]),
+		tempo: z.number().min(40).max(300).optional(),
+		profile: z.object({
+			name: z.string().trim().min(1).max(120),
+			rows: whole(1, 64).optional(),
+			cols: whole(1, 64).optional(),
+			inputs: z.array(inputSchema).max(512)
+		}),
+		counters: z.array(counterSchema).max(64).default([]),
+		bindings: z.array(bindingSchema).max(512)
+	})
+	.superRefine((m, ctx) => {
+		for (const p of crossCheck(m)) ctx.addIssue({ code: 'custom', message: p.message, path: p.path });
+	});
+
+type Raw = z.output<typeof mappingSchema>;
+type Path = (string | number)[];
+
+/** Rules between fields that a per-field schema can't see. */
+function crossCheck(m: Raw): { path: Path; message: string }[] {
+	const out: { path: Path; message: string }[] = [];
+	const decks = DECK_IDS.slice(0, m.decks) as readonly string[];
+	const deckOk = (d: string, path: Path) => {
+		if (!decks.includes(d)) out.push({ path, message: `deck ${d} doesn't exist in a ${m.decks}-deck mapping` });
+	};
+	const seen = new Set<string>();
+	m.profile.inputs.forEach((input, i) => {
+		if (seen.has(input.id)) out.push({ path: ['profile', 'inputs', i, 'id'], message: `another input is already called "${input.id}"` });
+		seen.add(input.id);
+		if ((input.note === undefined) === (input.cc === undefined))
+			out.push({ path: ['profile', 'inputs', i], message: 'give the input either a note or a CC number (exactly one)' });
+	});
+	const counters = new Map<string, number>();
+	m.counters.forEach((c, i) => {
+		if (counters.has(c.id)) out.push({ path: ['counters', i, 'id'], message: `another counter is already called "${c.id}"` });
+		if (c.rest > c.max) out.push({ path: ['counters', i, 'rest'], message: `rest value ${c.rest} is above the counter's max ${c.max}` });
+		counters.set(c.id, c.max);
+	});
+	const counterOk = (c: string, path: Path) => {
+		if (!counters.has(c)) out.push({ path, message: `there is no counter called "${c}"` });
+	};
+	m.bindings.forEach((b, bi) => {
+		const at: Path = ['bindings', bi];
+		if (!seen.has(b.input)) out.push({ path: [...at, 'input'], message: `there is no input called "${b.input}" in the controller profile` });
+		if (b.deck) deckOk(b.deck, [...at, 'deck']);
+		b.steps.forEach((s, si) => {
+			const sp: Path = [...at, 'steps', si];
+			if ('deck' in s.target) deckOk(s.target.deck, [...sp, 'target', 'deck']);
+			if (s.target.kind === 'counter') counterOk(s.target.counter, [...sp, 'target', 'counter']);
+			s.guards?.forEach((g, gi) => counterOk(g.counter, [...sp, 'guards', gi, 'counter']));
+			const problem = stepProblem(s, counters);
+			if (problem) out.push({ path: sp, message: problem });
+		});
+	});
+	return out;
+}
+
+const SWITCHES = new Set(['rack-on', 'rack-route', 'slot-on', 'deck-play']);
+const LEVELS = new Set(['rack-mix', 'slot-amount', 'focus-param']);
+
+/** Whether the action fits the target and the value fits both; null when it does. */
+function stepProblem(s: Step, counters: Map<string, number>): string | null {
+	const { kind } = s.target;
+	const v = s.value;
+	if (s.action === 'momentary' || s.action === 'toggle') {
+		if (!SWITCHES.has(kind)) return `${s.action} only works on something that switches on and off, not on ${kind}`;
+		if (v !== undefined) return `${s.action} steps take no value`;
+		return null;
+	}
+	if (s.action !== 'set') {
+		if (kind !== 'counter') return `${s.action} only works on a counter`;
+		if (v !== undefined) return `${s.action} steps take no value`;
+		return null;
+	}
+	if (v === undefined) return knobOk(kind) ? null : 'a set step needs a value';
+	if (kind === 'rack-mode') return v === 'chain' || v === 'focus' ? null : 'rack mode must be "chain" or "focus"';
+	if (kind === 'slot-effect')
+		return v === null || (EFFECT_IDS as readonly unknown[]).includes(v) ? null : `"${String(v)}" is not an effect`;
+	if (typeof v !== 'number') return `${kind} takes a number`;
+	if (SWITCHES.has(kind)) return v === 0 || v === 1 ? null : `${kind} takes 0 (off) or 1 (on)`;
+	if (LEVELS.has(kind)) return v >= 0 && v <= 1 ? null : `${kind} takes a value from 0 to 1`;
+	if (s.target.kind === 'counter') {
+		const max = counters.get(s.target.counter) ?? 0;
+		return Number.isInteger(v) && v >= 0 && v <= max ? null : `counter value must be a whole number from 0 to ${max}`;
+	}
+	return null;
+}
+
+/** A set step without a value takes the knob's position, so only continuous targets allow it. */
+function knobOk(kind: string): boolean {
+	return LEVELS.has(kind);
+}
+
+function pathText(path: readonly PropertyKey[]): string {
+	let out = '';
+	for (const p of path) out += typeof p === 'number' ? `[${p}]` : out ? `.${String(p)}` : String(p);
+	return out || '(document)';
+}
+
+function friendly(issue: z.core.$ZodIssue): string {
+	switch (issue.code) {
+		case 'invalid_type':
+			if (issue.message.endsWith('received undefined')) return 'is required';
+			return issue.expected === 'int' ? 'must be a whole number' : `must be ${article(issue.expected)}`;
+		case 'too_small':
+			if (issue.origin === 'array') return `needs at least ${issue.minimum} item(s)`;
+			if (issue.origin === 'string') return 'must not be empty';
+			return `must be ${issue.inclusive ? 'at least' : 'more than'} ${issue.minimum}`;
+		case 'too_big':
+			if (issue.origin === 'array') return `can have at most ${issue.maximum} item(s)`;
+			if (issue.origin === 'string') return `must be at most ${issue.maximum} characters`;
+			return `must be ${issue.inclusive ? 'at most' : 'less than'} ${issue.maximum}`;
+		case 'invalid_value':
+			return `must be ${issue.values.length === 1 ? '' : 'one of '}${issue.values.map((v) => JSON.stringify(v)).join(', ')}`;
+		case 'invalid_union': {
+			const options = (issue as { options?: unknown[] }).options;
+			return options ? `must be one of ${options.map((o) => JSON.stringify(o)).join(', ')}` : 'is not a value this field accepts';
+		}
+		default:
+			return issue.message;
+	}
+}
+
+const article = (word: string) => (/^[aeiou]/.test(word) ? `an ${word}` : `a ${word}`);
+
+export function toProblems(error: z.ZodError): Problem[] {
+	return error.issues.map((issue) => ({ path: pathText(issue.path), message: friendly(issue) }));
+}
+
+export function parseMapping(input: unknown): MappingResult {
+	const r = mappingSchema.safeParse(input);
+	if (!r.success) return { ok: false, problems: toProblems(r.error) };
+	const mapping: Mapping = r.data;
+	return { ok: true, mapping };
+}
+
+/** `JSON.parse` plus `parseMapping`, so a file that isn't JSON gets a problem, not a throw. */
+export function parseMappingText(text: string): MappingResult {
+	let data: unknown;
+	try {
+		data = JSON.parse(text);
+	} catch (e) {
+		return { ok: false, problems: [{ path: '(document)', message: `is not valid JSON: ${(e as Error).message}` }] };
+	}
+	return parseMapping(data);
+}
