@@ -2,7 +2,7 @@
 // precomputed, steps grouped by input in binding order. Cached per mapping object (a WeakMap), so
 // the hot path never walks the document again. Mappings are treated as immutable once applied:
 // an editor that changes one makes a new object.
-import type { Action, DeckId, Guard, Mapping, Phase, StepValue } from './types';
+import type { Action, DeckId, Guard, Mapping, Phase, Quantize, StepValue } from './types';
 
 export const T = {
 	rackOn: 0,
@@ -37,6 +37,8 @@ export interface CompiledStep {
 
 export interface CompiledMapping {
 	stepsByInput: Map<string, CompiledStep[]>;
+	/** The first quantize other than `off` among an input's bindings. */
+	quantizeByInput: Map<string, Exclude<Quantize, 'off'>>;
 }
 
 const cache = new WeakMap<Mapping, CompiledMapping>();
@@ -53,7 +55,10 @@ export function compileMapping(mapping: Mapping): CompiledMapping {
 function build(mapping: Mapping): CompiledMapping {
 	const max = new Map(mapping.counters.map((c) => [c.id, c.max]));
 	const stepsByInput = new Map<string, CompiledStep[]>();
+	const quantizeByInput = new Map<string, Exclude<Quantize, 'off'>>();
 	mapping.bindings.forEach((b, bi) => {
+		if (b.quantize && b.quantize !== 'off' && !quantizeByInput.has(b.input))
+			quantizeByInput.set(b.input, b.quantize);
 		const list = stepsByInput.get(b.input) ?? [];
 		stepsByInput.set(b.input, list);
 		b.steps.forEach((s, si) => {
@@ -80,7 +85,7 @@ function build(mapping: Mapping): CompiledMapping {
 			list.push({ ...base, kind, path });
 		});
 	});
-	return { stepsByInput };
+	return { stepsByInput, quantizeByInput };
 }
 
 function describe(

@@ -2,6 +2,13 @@
 export * from './types';
 export * from './effects';
 export { parseMapping, parseMappingText, mappingSchema, type Problem, type MappingResult } from './mapping';
+export { parseSession, sessionEvents, sessionFromEvents, sessionSchema, type SessionResult } from './session';
 export { applyEvent, applyEvents, initialRigState, initialRack, isAudible } from './rig';
+export { clockFor, engageAt, scheduleEvents, DEFAULT_TEMPO, type Clock, type Scheduled } from './schedule';
+export { replay, runEvents, AudibleTracker, type ReplayOptions } from './replay';
+export { analyze, whySilent } from './analyze';
+export { lintMapping, LINT_RULES, type LintFinding, type LintRule } from './lint';
+export { verifyGroup, verifyGroupSync, groupInputs, groupIds, type VerifyOptions, type VerifyProgress, type VerifyResult } from './verify';
 export { onePressEffect, legatoRow, type OnePressOptions, type LegatoRowOptions, type LegatoVariant } from './builders';
 export { DEMO_MAPPINGS, demoMapping, padGridProfile, padId, PAD_NOTE_BASE, type DemoMapping } from './demo';
+export { rigMachine, type RigActorEvent, type RigActorInput, type RigChangesEmitted, type RigContext } from './machines/rig';

@@ -149,7 +149,9 @@ function stepValue(step: CompiledStep, type: InputEvent['type'], knob: number | 
 	if (step.followsKnob) return undefined;
 	if (step.action === 'momentary') return type === 'press' ? 1 : 0;
 	if (step.action === 'toggle') return type === 'press' ? 'flip' : undefined;
-	return step.phase === type ? step.value : undefined;
+	if (step.phase !== type) return undefined;
+	// Count and reset steps carry no value; any defined value means "run".
+	return step.action === 'set' ? step.value : 0;
 }
 
 function runStep(d: Draft, step: CompiledStep, type: InputEvent['type'], knob: number | undefined) {
