@@ -14,7 +14,6 @@ import {
 	PHASES,
 	QUANTIZE,
 	RACK_COUNT,
-	RACK_MODES,
 	SLOT_COUNT,
 	type Mapping,
 	type Step
@@ -56,7 +55,8 @@ const guardSchema = z.object({
 export const stepSchema = z.object({
 	target: targetSchema,
 	action: z.enum(ACTIONS),
-	value: z.union([z.number(), z.enum(RACK_MODES), z.enum(EFFECT_IDS), z.null()]).optional(),
+	// Any number, word or null here; whether it fits the target is checked with the target in view.
+	value: z.union([z.number(), z.string().max(32), z.null()]).optional(),
 	phase: z.enum(PHASES).optional(),
 	guards: z.array(guardSchema).max(4).optional()
 });
@@ -157,7 +157,7 @@ const SWITCHES = new Set(['rack-on', 'rack-route', 'slot-on', 'deck-play']);
 const LEVELS = new Set(['rack-mix', 'slot-amount', 'focus-param']);
 
 /** Whether the action fits the target and the value fits both; null when it does. */
-function stepProblem(s: Step, counters: Map<string, number>): string | null {
+function stepProblem(s: Pick<Step, 'target' | 'action'> & { value?: unknown }, counters: Map<string, number>): string | null {
 	const { kind } = s.target;
 	const v = s.value;
 	if (s.action === 'momentary' || s.action === 'toggle') {
@@ -228,7 +228,9 @@ export function toProblems(error: z.ZodError): Problem[] {
 export function parseMapping(input: unknown): MappingResult {
 	const r = mappingSchema.safeParse(input);
 	if (!r.success) return { ok: false, problems: toProblems(r.error) };
-	const mapping: Mapping = r.data;
+	// The cross-field check has confirmed every step value fits its target, which is what narrows
+	// the schema's loose `value` to StepValue.
+	const mapping = r.data as Mapping;
 	return { ok: true, mapping };
 }
 
