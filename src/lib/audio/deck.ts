@@ -1,0 +1,88 @@
+// One deck: its source (a demo loop, or a test signal), play/stop, the four rack inserts in
+// series, and its level. Stopping ramps the source down before the inserts, so tails ring out.
+import { Gain, ToneAudioBuffer, ToneBufferSource } from 'tone';
+import { RACK_COUNT, type DeckId } from '$lib/engine/types';
+import type { BeatClock } from './beat-clock';
+import { rampParam } from './effects/effect';
+import { LoopPlayer } from './loops/loop-player';
+import type { DemoLoop } from './loops/patterns';
+import { dbToGain } from './mix';
+import { RACK_FADE, RackInsert } from './rack-insert';
+
+export class DeckChannel {
+	readonly output = new Gain(1);
+	readonly inserts: RackInsert[];
+	#source = new Gain(1);
+	#play = new Gain(1);
+	#loop: LoopPlayer | null = null;
+	#retired: LoopPlayer[] = [];
+	#probes: ToneBufferSource[] = [];
+	#levelDb = 0;
+
+	constructor(
+		readonly deck: DeckId,
+		readonly clock: BeatClock
+	) {
+		const bpm = clock.bpmAt(clock.origin);
+		this.inserts = Array.from({ length: RACK_COUNT }, (_, i) => new RackInsert(i + 1, deck, bpm));
+		this.#source.chain(this.#play, this.inserts[0].input);
+		this.inserts.forEach((r, i) => r.output.connect(this.inserts[i + 1]?.input ?? this.output));
+	}
+
+	get loop(): DemoLoop | null {
+		return this.#loop?.loop ?? null;
+	}
+
+	get levelDb(): number {
+		return this.#levelDb;
+	}
+
+	setLoop(loop: DemoLoop | null, time: number): void {
+		if (this.#loop) {
+			const old = this.#loop;
+			old.output.gain.setValueAtTime(old.output.gain.getValueAtTime(time), time);
+			old.output.gain.linearRampToValueAtTime(0, time + RACK_FADE);
+			// An offline render is still to run: keep the old loop until the deck goes away.
+			if (old.output.context.isOffline) this.#retired.push(old);
+			else setTimeout(() => old.dispose(), 1000 * (time - old.output.context.currentTime + 0.2));
+		}
+		this.#loop = loop ? new LoopPlayer(loop, this.clock) : null;
+		if (this.#loop) {
+			this.#loop.output.connect(this.#source);
+			this.#loop.start(time);
+		}
+	}
+
+	/** Plays fixed samples once from `time` (test signals on the sounds page and in tests). */
+	playSamples(channels: Float32Array[], time: number): void {
+		const probe = new ToneBufferSource({ url: ToneAudioBuffer.fromArray(channels) });
+		probe.connect(this.#source);
+		probe.onended = () => probe.dispose();
+		probe.start(time);
+		this.#probes.push(probe);
+	}
+
+	setPlaying(playing: boolean, time: number): void {
+		rampParam(this.#play.gain, playing ? 1 : 0, time, RACK_FADE);
+	}
+
+	/** Deck level in dB; up to +12 for tests of the master limiter. */
+	setLevel(db: number, time: number): void {
+		this.#levelDb = Math.min(12, db);
+		rampParam(this.output.gain, db <= -60 ? 0 : dbToGain(this.#levelDb), time, 0.01);
+	}
+
+	/** A tempo change at `time`: loops hand over, beat-synced effects retime. */
+	retime(time: number): void {
+		this.#loop?.start(time);
+		for (const insert of this.inserts) insert.setTempo(this.clock.bpmAt(time), time);
+	}
+
+	dispose(): void {
+		this.#loop?.dispose();
+		for (const l of this.#retired) l.dispose();
+		for (const p of this.#probes) p.dispose();
+		for (const r of this.inserts) r.dispose();
+		for (const n of [this.output, this.#source, this.#play]) n.dispose();
+	}
+}

@@ -1,0 +1,114 @@
+// The contract every rack effect class keeps. An effect's `output` is its wet signal only; the
+// slot around it decides how dry and wet meet (see rack-insert.ts). Parameters arrive as the
+// rig stores them, 0..1 per catalog parameter id (engine/effects.ts), and each class scales them.
+import { Gain } from 'tone';
+import { EFFECTS, divisionFromValue, divisionMs, type EffectParam } from '$lib/engine/effects';
+import type { EffectId } from '$lib/engine/types';
+
+/** `add`: the slot keeps the dry signal and adds the wet (echoes, reverb); `replace`: wet only. */
+export type ChainBlend = 'add' | 'replace';
+
+export interface EffectOptions {
+	bpm: number;
+}
+
+export abstract class RackEffect {
+	abstract readonly id: EffectId;
+	abstract readonly blend: ChainBlend;
+	readonly input = new Gain(1);
+	readonly output = new Gain(1);
+	protected bpm: number;
+	protected values: Record<string, number> = {};
+	#owned: { dispose(): unknown }[] = [this.input, this.output];
+
+	constructor(options: EffectOptions) {
+		this.bpm = options.bpm;
+	}
+
+	/** Registers nodes that `dispose()` must release. */
+	protected own<T extends { dispose(): unknown }>(node: T): T {
+		this.#owned.push(node);
+		return node;
+	}
+
+	/** Sets one catalog parameter (0..1) at `time`. */
+	set(param: string, value: number, time: number): void {
+		if (this.values[param] === value) return;
+		this.values[param] = value;
+		this.apply(param, value, time);
+	}
+
+	protected abstract apply(param: string, value: number, time: number): void;
+
+	/** Subclasses call this last in their constructor: every parameter at its catalog default. */
+	protected init(): void {
+		for (const p of EFFECTS[this.id].params) this.set(p.id, p.default, 0);
+	}
+
+	/** Beat-synced classes re-apply their divisions; others ignore tempo. */
+	setTempo(bpm: number, time: number): void {
+		if (bpm === this.bpm) return;
+		this.bpm = bpm;
+		this.retime(time);
+	}
+
+	protected retime(_time: number): void {}
+
+	/** The effect became audible (stutter captures its slice here). */
+	engage(_time: number): void {}
+
+	/** The effect stopped being audible. */
+	release(_time: number): void {}
+
+	/** A beat-synced parameter's current length in seconds. */
+	protected seconds(param: string): number {
+		return divisionMs(divisionFromValue(spec(this.id, param).divisions ?? [], this.values[param]), this.bpm) / 1000;
+	}
+
+	protected scaled(param: string): number {
+		return scaleParam(spec(this.id, param), this.values[param]);
+	}
+
+	dispose(): void {
+		for (const node of this.#owned) node.dispose();
+		this.#owned = [];
+	}
+}
+
+export function spec(effect: EffectId, param: string): EffectParam {
+	const found = EFFECTS[effect].params.find((p) => p.id === param);
+	if (!found) throw new Error(`${effect} has no parameter ${param}`);
+	return found;
+}
+
+/** 0..1 onto a continuous parameter's range (linear, or exponential for frequencies and times). */
+export function scaleParam(param: EffectParam, value: number): number {
+	const v = Math.min(1, Math.max(0, value));
+	if (!param.range) return v;
+	const { min, max, curve } = param.range;
+	return curve === 'exp' ? min * Math.pow(max / min, v) : min + (max - min) * v;
+}
+
+export interface Automatable {
+	cancelAndHoldAtTime(time: number): unknown;
+	setValueAtTime(value: number, time: number): unknown;
+	linearRampToValueAtTime(value: number, time: number): unknown;
+}
+
+/** Moves a parameter to `value` at `time` over `fade` seconds, from whatever it holds then. */
+export function rampParam(param: Automatable, value: number, time: number, fade: number): void {
+	param.cancelAndHoldAtTime(time);
+	if (fade > 0) param.linearRampToValueAtTime(value, time + fade);
+	else param.setValueAtTime(value, time);
+}
+
+/**
+ * Chromium renders a feedback cycle through a DelayNode one render quantum (128 frames, Web Audio
+ * API §2.4) later than its delay time. Loops subtract it inside the cycle and add it back as a
+ * plain pre-delay outside, so every pass lasts exactly the beat-synced time (measured in e2e).
+ */
+export const CYCLE_LAG_FRAMES = 128;
+
+export function cycleLag(sampleRate: number): number {
+	return CYCLE_LAG_FRAMES / sampleRate;
+}

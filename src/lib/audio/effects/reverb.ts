@@ -1,0 +1,82 @@
+import { Convolver, Delay, Filter, Gain, ToneAudioBuffer } from 'tone';
+import { seededNoise } from '../measure';
+import { RackEffect, rampParam, type EffectOptions } from './effect';
+
+const SWAP = 0.04; // seconds of crossfade when size or decay makes a new impulse response
+
+/**
+ * Convolution reverb over a generated impulse response: decorrelated noise per side with an
+ * exponential decay to −60 dB at the decay time. Size scales the decay and the pre-delay.
+ * A new response is swapped in with a short crossfade between two convolvers.
+ */
+export class Reverb extends RackEffect {
+	readonly id = 'reverb';
+	readonly blend = 'add';
+	#predelay = this.own(new Delay({ maxDelay: 0.1 }));
+	#damping = this.own(new Filter({ type: 'lowpass', rolloff: -12, Q: 0.5 }));
+	#rooms = [0, 1].map(() => ({
+		convolver: this.own(new Convolver({ normalize: false })),
+		level: this.own(new Gain(0))
+	}));
+	#live = 0;
+	#seed = 1;
+	#shape = '';
+
+	constructor(options: EffectOptions) {
+		super(options);
+		this.input.chain(this.#predelay, this.#damping);
+		for (const room of this.#rooms) {
+			this.#damping.connect(room.convolver);
+			room.convolver.chain(room.level, this.output);
+		}
+		this.init();
+	}
+
+	protected apply(param: string, _value: number, time: number) {
+		if (param === 'damping') rampParam(this.#damping.frequency, this.scaled('damping'), time, 0.005);
+		if (param === 'size') rampParam(this.#predelay.delayTime, 0.005 + 0.05 * this.values.size, time, 0);
+		if ((param === 'size' || param === 'decay') && this.values.size !== undefined && this.values.decay !== undefined) {
+			this.#swap(time);
+		}
+	}
+
+	#swap(time: number) {
+		const seconds = this.scaled('decay') * (0.4 + 0.8 * this.values.size);
+		const shape = seconds.toFixed(3);
+		if (shape === this.#shape) return;
+		this.#shape = shape;
+		const next = this.#rooms[1 - this.#live];
+		next.convolver.buffer = new ToneAudioBuffer(impulse(this.context.rawContext, seconds, this.#seed++));
+		rampParam(this.#rooms[this.#live].level.gain, 0, time, SWAP);
+		rampParam(next.level.gain, 1, time, SWAP);
+		this.#live = 1 - this.#live;
+	}
+
+	private get context() {
+		return this.input.context;
+	}
+}
+
+/** A stereo impulse response whose energy is about −8 dB, so the tail sits under the dry signal. */
+function impulse(context: BaseAudioContextLike, seconds: number, seed: number): AudioBuffer {
+	const rate = context.sampleRate;
+	const length = Math.max(1, Math.round(seconds * rate));
+	const buffer = context.createBuffer(2, length, rate) as AudioBuffer;
+	for (let c = 0; c < 2; c++) {
+		const data = seededNoise(length, seed * 2 + c);
+		let energy = 0;
+		for (let i = 0; i < length; i++) {
+			data[i] *= Math.exp((-6.91 * i) / length);
+			energy += data[i] * data[i];
+		}
+		const scale = 0.4 / Math.sqrt(energy);
+		for (let i = 0; i < length; i++) data[i] *= scale;
+		buffer.getChannelData(c).set(data);
+	}
+	return buffer;
+}
+
+interface BaseAudioContextLike {
+	sampleRate: number;
+	createBuffer(channels: number, length: number, rate: number): unknown;
+}

@@ -1,0 +1,146 @@
+// One rack as an insert on one deck: dry and wet (equal-power, DESIGN.md §5) around three slots
+// in series. It follows the rack's state; effect instances are built the first time the rack is
+// routed to this deck and replaced with a short crossfade when a slot's effect changes.
+import { Gain } from 'tone';
+import type { DeckId, EffectId, RackState } from '$lib/engine/types';
+import { createEffect, type RackEffect } from './effects';
+import { rampParam } from './effects/effect';
+import { equalPowerGains } from './mix';
+import { rackEngaged, slotActive, slotValues } from './slot-values';
+
+/** Every gain move in a rack ramps this long (seconds): short enough to feel instant, no click. */
+export const RACK_FADE = 0.003;
+
+interface Loaded {
+	id: EffectId;
+	effect: RackEffect;
+	wet: Gain;
+	engaged: boolean;
+}
+
+class SlotStage {
+	readonly input = new Gain(1);
+	readonly output = new Gain(1);
+	#bypass = new Gain(1);
+	loaded: Loaded | null = null;
+	#retired: (Loaded & { until: number })[] = [];
+
+	constructor() {
+		this.input.chain(this.#bypass, this.output);
+	}
+
+	load(id: EffectId | null, bpm: number, time: number) {
+		if (this.loaded?.id === id) return;
+		this.#sweep();
+		if (this.loaded) {
+			rampParam(this.loaded.wet.gain, 0, time, RACK_FADE);
+			if (this.loaded.engaged) this.loaded.effect.release(time + RACK_FADE);
+			this.#retired.push({ ...this.loaded, until: time + 0.5 });
+			this.loaded = null;
+		}
+		if (id === null) return;
+		const effect = createEffect(id, { bpm });
+		const wet = new Gain(0);
+		this.input.connect(effect.input);
+		effect.output.chain(wet, this.output);
+		this.loaded = { id, effect, wet, engaged: false };
+	}
+
+	follow(active: boolean, bypass: number, time: number) {
+		rampParam(this.#bypass.gain, bypass, time, RACK_FADE);
+		const loaded = this.loaded;
+		if (!loaded) return;
+		rampParam(loaded.wet.gain, active ? 1 : 0, time, RACK_FADE);
+		if (active && !loaded.engaged) loaded.effect.engage(time);
+		if (!active && loaded.engaged) loaded.effect.release(time + RACK_FADE);
+		loaded.engaged = active;
+	}
+
+	/** Releases effects swapped out a while ago (a long rehearsal swaps many). */
+	#sweep() {
+		const now = this.input.context.currentTime;
+		this.#retired = this.#retired.filter((l) => {
+			if (l.until > now) return true;
+			l.effect.dispose();
+			l.wet.dispose();
+			return false;
+		});
+	}
+
+	dispose() {
+		for (const l of [...this.#retired, ...(this.loaded ? [this.loaded] : [])]) {
+			l.effect.dispose();
+			l.wet.dispose();
+		}
+		this.#retired = [];
+		this.loaded = null;
+		this.input.dispose();
+		this.output.dispose();
+		this.#bypass.dispose();
+	}
+}
+
+export class RackInsert {
+	readonly input = new Gain(1);
+	readonly output = new Gain(1);
+	#dry = new Gain(1);
+	#wet = new Gain(0);
+	#slots: SlotStage[] = [];
+	#built = false;
+	#bpm: number;
+
+	constructor(
+		readonly rack: number,
+		readonly deck: DeckId,
+		bpm: number
+	) {
+		this.#bpm = bpm;
+		this.input.chain(this.#dry, this.output);
+	}
+
+	/** Applies the rack's state at `time` (all of one event's changes share that time). */
+	follow(rack: RackState, time: number) {
+		const routed = rack.routes[this.deck];
+		if (routed && !this.#built) this.#build();
+		const engaged = rackEngaged(rack, routed);
+		const gains = engaged ? equalPowerGains(rack.mix) : { dry: 1, wet: 0 };
+		rampParam(this.#dry.gain, gains.dry, time, RACK_FADE);
+		rampParam(this.#wet.gain, gains.wet, time, RACK_FADE);
+		this.#slots.forEach((stage, i) => {
+			const effect = rack.slots[i].effect;
+			stage.load(effect, this.#bpm, time);
+			const active = slotActive(rack, i);
+			if (stage.loaded && effect) {
+				for (const [param, value] of Object.entries(slotValues(rack, i, effect))) {
+					stage.loaded.effect.set(param, value, time);
+				}
+			}
+			const adds = stage.loaded?.effect.blend === 'add' && rack.mode === 'chain';
+			stage.follow(engaged && active, active && !adds ? 0 : 1, time);
+		});
+	}
+
+	setTempo(bpm: number, time: number) {
+		this.#bpm = bpm;
+		for (const stage of this.#slots) stage.loaded?.effect.setTempo(bpm, time);
+	}
+
+	/** Effects currently loaded, for tests and the sounds page. */
+	get effects(): (EffectId | null)[] {
+		return this.#slots.map((s) => s.loaded?.id ?? null);
+	}
+
+	#build() {
+		this.#built = true;
+		this.#slots = [0, 1, 2].map(() => new SlotStage());
+		this.input.connect(this.#slots[0].input);
+		this.#slots[0].output.connect(this.#slots[1].input);
+		this.#slots[1].output.connect(this.#slots[2].input);
+		this.#slots[2].output.chain(this.#wet, this.output);
+	}
+
+	dispose() {
+		for (const s of this.#slots) s.dispose();
+		for (const n of [this.input, this.output, this.#dry, this.#wet]) n.dispose();
+	}
+}

@@ -1,0 +1,115 @@
+// AudioRig: the one Tone.js graph of a rehearsal (DESIGN.md §5). It follows the engine — every
+// RigChange is scheduled at its event time plus a fixed look-ahead, rounded to a frame, so all
+// changes of one event land on the same audio frame — and never decides what a step does.
+import { getContext, type BaseContext } from 'tone';
+import { DECK_IDS, type DeckId, type RigChange, type RigState } from '$lib/engine/types';
+import { BeatClock } from './beat-clock';
+import { DeckChannel } from './deck';
+import { loadCrusher } from './effects/crusher-worklet';
+import type { DemoLoop } from './loops/patterns';
+import { MasterBus } from './master';
+import { quietRig, writeChange, type Touched } from './rig-state';
+
+/** Seconds between an event's time and when its changes sound: JS never races the audio thread. */
+export const LOOK_AHEAD = 0.04;
+
+export interface AudioRigOptions {
+	tempo?: number;
+	/** Context time of the session clock's zero (ms 0 of RigChange.t). */
+	origin?: number;
+	lookAhead?: number;
+	state?: RigState;
+}
+
+export class AudioRig {
+	readonly context: BaseContext;
+	readonly master = new MasterBus();
+	readonly clock: BeatClock;
+	readonly decks: Record<DeckId, DeckChannel>;
+	readonly lookAhead: number;
+	origin: number;
+	#state: RigState;
+
+	/** Builds the rig on the current Tone context once its worklets are loaded. */
+	static async create(options: AudioRigOptions = {}): Promise<AudioRig> {
+		await loadCrusher(getContext());
+		return new AudioRig(options);
+	}
+
+	private constructor({ tempo = 120, origin = 0, lookAhead = LOOK_AHEAD, state = quietRig() }: AudioRigOptions) {
+		this.context = getContext();
+		this.origin = origin;
+		this.lookAhead = lookAhead;
+		this.clock = new BeatClock(tempo, origin);
+		this.context.transport.bpm.setValueAtTime(tempo, 0);
+		this.decks = Object.fromEntries(DECK_IDS.map((d) => [d, new DeckChannel(d, this.clock)])) as Record<DeckId, DeckChannel>;
+		for (const d of DECK_IDS) this.decks[d].output.connect(this.master.input);
+		this.#state = structuredClone(state);
+		this.sync(this.#state, origin);
+	}
+
+	get state(): RigState {
+		return this.#state;
+	}
+
+	get tempo(): number {
+		return this.clock.bpmAt(this.context.currentTime);
+	}
+
+	/** The context time a change at session time `t` (ms) sounds at, on a frame boundary. */
+	timeOf(t: number): number {
+		const rate = this.context.sampleRate;
+		return Math.round((this.origin + t / 1000 + this.lookAhead) * rate) / rate;
+	}
+
+	/** Follows a list of engine changes; consecutive changes of one event share one time. */
+	apply(changes: readonly RigChange[]): void {
+		let i = 0;
+		while (i < changes.length) {
+			const event = changes[i].event;
+			const time = Math.max(this.timeOf(changes[i].t), this.context.currentTime);
+			const touched: Touched = { racks: new Set(), decks: new Set() };
+			for (; i < changes.length && changes[i].event === event; i++) writeChange(this.#state, changes[i], touched);
+			this.#follow(touched, time);
+		}
+	}
+
+	/** Takes over a whole state at once (a session starting, a seek in replay). */
+	sync(state: RigState, time = this.context.currentTime): void {
+		this.#state = structuredClone(state);
+		this.#follow({ racks: new Set(state.racks.map((_, i) => i)), decks: new Set(DECK_IDS) }, time);
+	}
+
+	setTempo(bpm: number, time = this.context.currentTime): void {
+		this.clock.setTempo(bpm, time);
+		this.context.transport.bpm.setValueAtTime(bpm, time);
+		for (const d of DECK_IDS) this.decks[d].retime(time);
+	}
+
+	setLoop(deck: DeckId, loop: DemoLoop | null, time = this.context.currentTime): void {
+		this.decks[deck].setLoop(loop, time);
+	}
+
+	/** Starts the beat clock's transport (gate cycles run on it) at the clock's origin. */
+	startClock(): void {
+		this.context.transport.start(this.clock.origin);
+	}
+
+	#follow(touched: Touched, time: number) {
+		for (const r of touched.racks) {
+			const rack = this.#state.racks[r];
+			if (rack) for (const d of DECK_IDS) this.decks[d].inserts[r].follow(rack, time);
+		}
+		for (const d of touched.decks) {
+			const deck = this.#state.decks[d as DeckId];
+			if (deck) this.decks[d as DeckId].setPlaying(deck.playing, time);
+		}
+	}
+
+	dispose(): void {
+		this.context.transport.stop();
+		this.context.transport.cancel(0);
+		for (const d of DECK_IDS) this.decks[d].dispose();
+		this.master.dispose();
+	}
+}
