@@ -1,0 +1,19 @@
+import { building } from '$app/environment';
+import { auth } from '$lib/server/auth';
+import { demoEnabled } from '$lib/server/config';
+import { client, db, prepareDatabase } from '$lib/server/db';
+import { seedDemo } from '$lib/server/db/seed';
+import type { Handle, ServerInit } from '@sveltejs/kit';
+import { svelteKitHandler } from 'better-auth/svelte-kit';
+
+export const init: ServerInit = async () => {
+	await prepareDatabase(client, db);
+	if (demoEnabled()) await seedDemo(db);
+};
+
+export const handle: Handle = async ({ event, resolve }) => {
+	const session = await auth.api.getSession({ headers: event.request.headers });
+	event.locals.user = session?.user ?? null;
+	event.locals.session = session?.session ?? null;
+	return svelteKitHandler({ event, resolve, auth, building });
+};

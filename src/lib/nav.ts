@@ -1,0 +1,21 @@
+export type NavRole = 'admin' | 'teacher' | 'student';
+
+export interface NavItem {
+	href: string;
+	label: string;
+	roles?: NavRole[];
+}
+
+const ITEMS: NavItem[] = [
+	{ href: '/home', label: 'Home' },
+	{ href: '/sounds', label: 'Sounds' },
+	{ href: '/controllers', label: 'Controllers' },
+	{ href: '/classes', label: 'Classes', roles: ['teacher', 'admin'] },
+	{ href: '/admin', label: 'Admin', roles: ['admin'] }
+];
+
+/** The navigation a role sees; the server checks every area again on its own. */
+export function navFor(role: string | undefined | null): NavItem[] {
+	if (!role) return [];
+	return ITEMS.filter((item) => !item.roles || item.roles.includes(role as NavRole));
+}

@@ -1,0 +1,73 @@
+// Tables better-auth reads and writes (its documented core schema), plus our `role` field.
+import { sql } from 'drizzle-orm';
+import { index, integer, sqliteTable, text } from 'drizzle-orm/sqlite-core';
+
+const createdAt = () =>
+	integer({ mode: 'timestamp_ms' })
+		.default(sql`(cast(unixepoch('subsecond') * 1000 as integer))`)
+		.notNull();
+
+export const user = sqliteTable('user', {
+	id: text().primaryKey(),
+	name: text().notNull(),
+	email: text().notNull().unique(),
+	emailVerified: integer({ mode: 'boolean' }).default(false).notNull(),
+	image: text(),
+	role: text({ enum: ['admin', 'teacher', 'student'] })
+		.default('student')
+		.notNull(),
+	createdAt: createdAt(),
+	updatedAt: createdAt().$onUpdate(() => new Date())
+});
+
+export const session = sqliteTable(
+	'session',
+	{
+		id: text().primaryKey(),
+		expiresAt: integer({ mode: 'timestamp_ms' }).notNull(),
+		token: text().notNull().unique(),
+		createdAt: createdAt(),
+		updatedAt: createdAt().$onUpdate(() => new Date()),
+		ipAddress: text(),
+		userAgent: text(),
+		userId: text()
+			.notNull()
+			.references(() => user.id, { onDelete: 'cascade' })
+	},
+	(t) => [index('session_user_idx').on(t.userId)]
+);
+
+export const account = sqliteTable(
+	'account',
+	{
+		id: text().primaryKey(),
+		accountId: text().notNull(),
+		providerId: text().notNull(),
+		userId: text()
+			.notNull()
+			.references(() => user.id, { onDelete: 'cascade' }),
+		accessToken: text(),
+		refreshToken: text(),
+		idToken: text(),
+		accessTokenExpiresAt: integer({ mode: 'timestamp_ms' }),
+		refreshTokenExpiresAt: integer({ mode: 'timestamp_ms' }),
+		scope: text(),
+		password: text(),
+		createdAt: createdAt(),
+		updatedAt: createdAt().$onUpdate(() => new Date())
+	},
+	(t) => [index('account_user_idx').on(t.userId)]
+);
+
+export const verification = sqliteTable(
+	'verification',
+	{
+		id: text().primaryKey(),
+		identifier: text().notNull(),
+		value: text().notNull(),
+		expiresAt: integer({ mode: 'timestamp_ms' }).notNull(),
+		createdAt: createdAt(),
+		updatedAt: createdAt().$onUpdate(() => new Date())
+	},
+	(t) => [index('verification_identifier_idx').on(t.identifier)]
+);

@@ -1,0 +1,27 @@
+import { createClient, type Client } from '@libsql/client';
+import { drizzle } from 'drizzle-orm/libsql';
+import { migrate } from 'drizzle-orm/libsql/migrator';
+import { mkdirSync } from 'node:fs';
+import { dirname } from 'node:path';
+import { databaseUrl } from '../config';
+import * as schema from './schema';
+
+export function openDatabase(url = databaseUrl()) {
+	if (url.startsWith('file:')) mkdirSync(dirname(url.slice('file:'.length)), { recursive: true });
+	const client = createClient({ url, authToken: process.env.DATABASE_AUTH_TOKEN });
+	return { client, db: drizzle(client, { schema, casing: 'snake_case' }) };
+}
+
+export type Database = ReturnType<typeof openDatabase>['db'];
+
+/** Brings a database up to the newest schema; a local file also gets WAL and a busy timeout. */
+export async function prepareDatabase(client: Client, db: Database, migrationsFolder = 'drizzle') {
+	if (client.protocol === 'file') {
+		await client.execute('PRAGMA journal_mode = WAL');
+		await client.execute('PRAGMA busy_timeout = 5000');
+		await client.execute('PRAGMA foreign_keys = ON');
+	}
+	await migrate(db, { migrationsFolder });
+}
+
+export const { client, db } = openDatabase();

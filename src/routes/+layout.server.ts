@@ -1,0 +1,7 @@
+import type { LayoutServerLoad } from './$types';
+
+export const load: LayoutServerLoad = ({ locals }) => ({
+	user: locals.user
+		? { id: locals.user.id, name: locals.user.name, email: locals.user.email, role: locals.user.role ?? 'student' }
+		: null
+});

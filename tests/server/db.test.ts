@@ -1,0 +1,81 @@
+import { openDatabase, prepareDatabase } from '$lib/server/db';
+import { user } from '$lib/server/db/schema';
+import { DEMO_USERS, seedDemo } from '$lib/server/db/seed';
+import { changeRole, listUsers, RoleChangeError } from '$lib/server/users';
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+
+let dir: string;
+let handle: ReturnType<typeof openDatabase>;
+
+beforeEach(async () => {
+	dir = mkdtempSync(join(tmpdir(), 'padproof-db-'));
+	handle = openDatabase(`file:${join(dir, 'nested', 'test.db')}`);
+	await prepareDatabase(handle.client, handle.db);
+});
+
+afterEach(() => {
+	handle.client.close();
+	rmSync(dir, { recursive: true, force: true });
+});
+
+describe('database module', () => {
+	it('creates the file in a missing folder and applies every migration', async () => {
+		const tables = await handle.client.execute("select name from sqlite_master where type = 'table' order by name");
+		const names = tables.rows.map((r) => r.name);
+		expect(names).toEqual(expect.arrayContaining(['user', 'session', 'account', 'verification', '__drizzle_migrations']));
+	});
+
+	it('puts a local file in WAL mode with a busy timeout', async () => {
+		const mode = await handle.client.execute('PRAGMA journal_mode');
+		const timeout = await handle.client.execute('PRAGMA busy_timeout');
+		expect(String(mode.rows[0][0]).toLowerCase()).toBe('wal');
+		expect(Number(timeout.rows[0][0])).toBe(5000);
+	});
+
+	it('applies migrations once: preparing twice keeps the data', async () => {
+		await handle.db.insert(user).values({ id: 'x', name: 'X', email: 'x@example.com' });
+		await prepareDatabase(handle.client, handle.db);
+		expect(await handle.db.select().from(user)).toHaveLength(1);
+	});
+
+	it('gives a new account the student role by default', async () => {
+		await handle.db.insert(user).values({ id: 'y', name: 'Y', email: 'y@example.com' });
+		const [row] = await handle.db.select().from(user);
+		expect(row.role).toBe('student');
+	});
+});
+
+describe('demo school', () => {
+	it('seeds one admin, one teacher and three students, once', async () => {
+		expect(await seedDemo(handle.db)).toBe(DEMO_USERS.length);
+		expect(await seedDemo(handle.db)).toBe(0);
+		const roles = (await listUsers(handle.db)).map((u) => u.role).sort();
+		expect(roles).toEqual(['admin', 'student', 'student', 'student', 'teacher']);
+	});
+});
+
+describe('changeRole', () => {
+	it('promotes a student to teacher', async () => {
+		await seedDemo(handle.db);
+		const kai = (await listUsers(handle.db, 'kai@')).at(0)!;
+		expect((await changeRole(handle.db, kai.id, 'teacher')).role).toBe('teacher');
+		expect((await listUsers(handle.db, 'kai@'))[0].role).toBe('teacher');
+	});
+
+	it('refuses to demote the last admin', async () => {
+		await seedDemo(handle.db);
+		const ines = (await listUsers(handle.db, 'ines@'))[0];
+		await expect(changeRole(handle.db, ines.id, 'student')).rejects.toBeInstanceOf(RoleChangeError);
+	});
+
+	it('searches by name or email, treating % as a plain character', async () => {
+		await seedDemo(handle.db);
+		expect((await listUsers(handle.db, 'Osei')).map((u) => u.email)).toEqual(['lena@mixlab.example']);
+		expect(await listUsers(handle.db, '%')).toEqual([]);
+		await handle.db.insert(user).values({ id: 'p', name: '100% Vinyl', email: 'pct@example.com' });
+		expect((await listUsers(handle.db, '0%')).map((u) => u.name)).toEqual(['100% Vinyl']);
+	});
+});
