@@ -5,7 +5,7 @@
 // press or release did what, e.g. "release of Pad 13 at 12.438 s turned rack 2 off while Pad 14
 // was held".
 import { runEvents, type ReplayOptions } from './replay';
-import { initialRigState } from './rig';
+import { initialRigState, isAudible } from './rig';
 import { conditions, initialWatch, inputName, observe, rulesFor, touchedRacks, type Condition, type Rules, type WatchState } from './watch';
 import type { Clamp, DeckId, Finding, InputEvent, Mapping, RigChange, RigState } from './types';
 
@@ -44,13 +44,14 @@ export function whySilent(s: RigState, rack: number, deck: DeckId): string {
 	return r.mode === 'focus' ? `rack ${rack}'s focus effect isn't chosen and on` : `no slot of rack ${rack} is on with an effect`;
 }
 
-function message(m: Mapping, rules: Rules, c: Condition, e: InputEvent, at: number, s: RigState, changes: RigChange[]): string {
+function message(m: Mapping, rules: Rules, c: Condition, e: InputEvent, at: number, s: RigState, before: RigState, changes: RigChange[]): string {
 	const by = cause(m, e, at);
 	if (c.kind === 'dropout') {
 		const u = rules.units[c.unit];
 		const held = s.held.filter((h) => u.inputs.has(h)).map((h) => inputName(m, h));
 		const was = `while ${list(held)} ${held.length > 1 ? 'were' : 'was'} held`;
-		for (const r of u.racks)
+		// Blame a change only for a rack this very event silenced.
+		for (const r of u.racks.filter((x) => (u.deck ? [u.deck] : rules.decks).some((d) => isAudible(before, x, d))))
 			for (const ch of changes) {
 				const what = silencing(ch, r, u.deck);
 				if (what) return `${by} ${what} ${was}`;
@@ -101,7 +102,7 @@ export function analyze(mapping: Mapping, events: readonly InputEvent[], options
 	const open = new Map<string, Finding>();
 	const clashed = new Set<string>();
 	let watch: WatchState = initialWatch(rules);
-	runEvents(mapping, events, { ...options, from: options.from ?? initialRigState(mapping) }, (result, _before, index, at) => {
+	runEvents(mapping, events, { ...options, from: options.from ?? initialRigState(mapping) }, (result, prior, index, at) => {
 		const e = events[index];
 		const addr = rules.addressOf.get(e.input);
 		if (rules.clashInputs.has(e.input) && e.type !== 'release' && addr && !clashed.has(addr)) {
@@ -110,10 +111,10 @@ export function analyze(mapping: Mapping, events: readonly InputEvent[], options
 		}
 		for (const cl of result.clamps)
 			findings.push({ kind: 'clamp', start: at, end: at, event: index, ...blank, input: e.input, binding: cl.binding, counter: cl.counter, message: clampMessage(mapping, e, cl) });
-		const before = watch;
+		const seen = watch;
 		watch = observe(rules, watch, e.input, e.type, touchedRacks(result.changes));
 		// Same state and same watch: the same conditions hold, nothing opens or closes.
-		if (!result.changes.length && watch === before) return;
+		if (!result.changes.length && watch === seen) return;
 		const now = conditions(rules, result.state, watch);
 		const live = new Set<string>();
 		for (const c of now) {
@@ -130,7 +131,7 @@ export function analyze(mapping: Mapping, events: readonly InputEvent[], options
 				deck: c.deck,
 				rack: c.rack,
 				counter: c.counter,
-				message: message(mapping, rules, c, e, at, result.state, result.changes)
+				message: message(mapping, rules, c, e, at, result.state, prior, result.changes)
 			};
 			open.set(c.key, f);
 			findings.push(f);

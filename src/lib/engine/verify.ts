@@ -22,6 +22,7 @@ export interface VerifyOptions {
 	signal?: AbortSignal;
 	maxStates?: number; // default 2,000,000: past it the answer is "unknown", not a proof
 	gapMs?: number; // spacing of counterexample events, default 250 ms
+	chunk?: number; // states explored between progress reports (and yields), default 20,000
 }
 
 export interface VerifyResult {
@@ -165,7 +166,7 @@ function check(mapping: Mapping, inputIds: string[]): string[] {
 export function verifyGroupSync(mapping: Mapping, inputIds: string[], options: VerifyOptions = {}): VerifyResult {
 	const search = new Search(mapping, check(mapping, inputIds));
 	const max = options.maxStates ?? 2_000_000;
-	while (!search.run(CHUNK, max)) options.onProgress?.(progress(search));
+	while (!search.run(options.chunk ?? CHUNK, max)) options.onProgress?.(progress(search));
 	return search.result(search.status, options.gapMs ?? 250);
 }
 
@@ -179,7 +180,7 @@ export async function verifyGroup(mapping: Mapping, inputIds: string[], options:
 	const max = options.maxStates ?? 2_000_000;
 	for (;;) {
 		if (options.signal?.aborted) return search.result('cancelled', 0);
-		if (search.run(CHUNK, max)) break;
+		if (search.run(options.chunk ?? CHUNK, max)) break;
 		options.onProgress?.(progress(search));
 		await new Promise((resolve) => setTimeout(resolve, 0));
 	}

@@ -4,7 +4,8 @@
 // alone) on its target deck, with the racks its steps switch on.
 //   dropout  a pad of the unit is held, yet none of its racks is audible on its deck;
 //   stuck    no pad of the unit is held (after it was played), yet one of its racks is audible on
-//            its deck and no held while-held pad or latched pad is the reason;
+//            its deck, the unit's own pads set that rack up last, and no held while-held pad or
+//            latched pad is the reason;
 //   leak     a rack is audible on a deck other than the deck of the binding that last set it up;
 //   drift    no pad that counts a counter is held, yet the counter is off its rest value.
 // Clash and clamp are events, not states: `clashInputs` and the clamps applyEvent returns.
@@ -192,7 +193,7 @@ export function conditions(rules: Rules, s: RigState, w: WatchState): Condition[
 		if (!w.used[ui]) return;
 		for (const d of decks)
 			for (const r of u.racks) {
-				if (!isAudible(s, r, d) || claimed(rules, s, w, r, d)) continue;
+				if (!isAudible(s, r, d) || !setUpBy(rules, w, r, u) || claimed(rules, s, w, r, d)) continue;
 				out.push({ kind: 'stuck', key: `stuck|${u.key}|${r}|${d}`, unit: ui, rack: r, deck: d, counter: null, binding: null });
 			}
 	});
@@ -210,6 +211,12 @@ export function conditions(rules: Rules, s: RigState, w: WatchState): Condition[
 			out.push({ kind: 'drift', key: `drift|${c}`, unit: -1, rack: null, deck: null, counter: c, binding: null });
 	}
 	return out;
+}
+
+/** Whether the unit's own pads were the last to change the rack (else its sound is another's doing). */
+function setUpBy(rules: Rules, w: WatchState, rack: number, u: Unit): boolean {
+	const b = w.toucher[rack - 1];
+	return b >= 0 && u.inputs.has(rules.bindings[b].input);
 }
 
 function claimed(rules: Rules, s: RigState, w: WatchState, rack: number, deck: DeckId): boolean {
