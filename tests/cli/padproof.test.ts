@@ -1,0 +1,88 @@
+import { describe, expect, it, beforeAll } from 'vitest';
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { runCli } from '$lib/cli/padproof';
+import { demoMapping } from '$lib/engine/demo';
+import { sessionFromEvents } from '$lib/engine/session';
+
+let dir = '';
+const file = (name: string, content: unknown) => {
+	const path = join(dir, name);
+	writeFileSync(path, typeof content === 'string' ? content : JSON.stringify(content));
+	return path;
+};
+
+beforeAll(() => {
+	dir = mkdtempSync(join(tmpdir(), 'padproof-cli-'));
+});
+
+describe('padproof CLI', () => {
+	it('prints help and exits 0', () => {
+		const r = runCli(['--help']);
+		expect(r.code).toBe(0);
+		expect(r.out).toMatch(/padproof lint <mapping.json>/);
+	});
+
+	it('lints a clean mapping with exit 0 and a broken one with exit 1', () => {
+		expect(runCli(['lint', file('good.json', demoMapping('two-deck'))])).toMatchObject({ code: 0, out: 'Two-deck pad set: 0 findings' });
+		const bad = runCli(['lint', file('bad.json', demoMapping('broken-row'))]);
+		expect(bad.code).toBe(1);
+		expect(bad.out).toMatch(/legato-without-counter/);
+	});
+
+	it('gives machines JSON with --json', () => {
+		const r = runCli(['lint', file('bad.json', demoMapping('broken-row')), '--json']);
+		expect(JSON.parse(r.out).findings[0]).toMatchObject({ rule: 'legato-without-counter', input: 'pad-13' });
+	});
+
+	it('verifies a group and prints the shortest breaking sequence', () => {
+		const r = runCli(['verify', file('bad.json', demoMapping('broken-row')), '--group', 'stutter-row', '--json']);
+		expect(r.code).toBe(1);
+		const [g] = JSON.parse(r.out).groups;
+		expect(g.result.counterexample.map((e: { type: string; input: string }) => `${e.type} ${e.input}`)).toEqual(['press pad-13', 'press pad-14', 'release pad-13']);
+		expect(runCli(['verify', 'demo:two-deck']).out).toBe('stutter-row (4 inputs): proved over 17 states');
+	});
+
+	it('replays a session and points findings at session events', () => {
+		const s = sessionFromEvents(
+			[
+				{ t: 1000, input: 'pad-13', type: 'press' },
+				{ t: 1500, input: 'pad-14', type: 'press' },
+				{ t: 12438, input: 'pad-13', type: 'release' },
+				{ t: 13000, input: 'pad-14', type: 'release' }
+			],
+			124
+		);
+		s.events.splice(1, 0, { t: 1200, midi: [0xb0, 1, 64], input: null }); // an unmapped message
+		const r = runCli(['replay', 'demo:broken-row', file('session.json', s)]);
+		expect(r.code).toBe(1);
+		expect(r.out).toMatch(/dropout +12\.438 s – 13\.000 s {2}event 4: release of Pad 13 at 12\.438 s turned rack 2 off while Pad 14 was held/);
+		expect(runCli(['replay', 'demo:two-deck', file('session.json', s)]).code).toBe(0);
+	});
+
+	it.each([
+		['a missing file', ['lint', '/no/such/mapping.json'], /does not exist/],
+		['a file that is not JSON', ['lint', 'NOT_JSON'], /not valid JSON/],
+		['a mapping with problems', ['lint', 'BAD_MAPPING'], /decks: must be one of 2, 4/],
+		['a bad session', ['replay', 'demo:two-deck', 'BAD_SESSION'], /tempo: is required/],
+		['an unknown command', ['dance'], /unknown command/],
+		['a missing argument', ['replay', 'demo:two-deck'], /missing a session file/]
+	])('exits 2 on %s', (_, argv, message) => {
+		const paths: Record<string, string> = {
+			NOT_JSON: file('x.json', '{ nope'),
+			BAD_MAPPING: file('m.json', { ...demoMapping('two-deck'), decks: 3 }),
+			BAD_SESSION: file('s.json', { version: 1, startedAt: '2025-01-01T00:00:00Z', events: [] })
+		};
+		const r = runCli(argv.map((a) => paths[a] ?? a));
+		expect(r.code).toBe(2);
+		expect(r.err).toMatch(message);
+	});
+
+	it('sets the process exit code when run through npm', () => {
+		const r = spawnSync('npx', ['tsx', 'src/lib/cli/padproof.ts', 'lint', 'demo:broken-row'], { encoding: 'utf8' });
+		expect(r.status).toBe(1);
+		expect(r.stdout).toMatch(/Broken stutter row: 1 finding/);
+	});
+});
