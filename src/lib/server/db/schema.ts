@@ -1,1 +1,89 @@
+import { sql } from 'drizzle-orm';
+import { index, integer, primaryKey, real, sqliteTable, text } from 'drizzle-orm/sqlite-core';
+import { user } from './auth.schema';
+
 export * from './auth.schema';
+
+const now = () =>
+	integer({ mode: 'timestamp_ms' })
+		.default(sql`(cast(unixepoch('subsecond') * 1000 as integer))`)
+		.notNull();
+
+/** A mapping document's home; its content lives in versions, the newest being `currentVersion`. */
+export const mapping = sqliteTable(
+	'mapping',
+	{
+		id: text().primaryKey(),
+		ownerId: text()
+			.notNull()
+			.references(() => user.id, { onDelete: 'cascade' }),
+		name: text().notNull(),
+		visibility: text({ enum: ['private', 'public'] })
+			.default('private')
+			.notNull(),
+		demoSlug: text().unique(),
+		currentVersion: integer().notNull().default(1),
+		createdAt: now(),
+		updatedAt: now().$onUpdate(() => new Date())
+	},
+	(t) => [index('mapping_owner_idx').on(t.ownerId)]
+);
+
+/** Every change of a mapping's document is a new version; sessions pin the one they used. */
+export const mappingVersion = sqliteTable(
+	'mapping_version',
+	{
+		id: text().primaryKey(),
+		mappingId: text()
+			.notNull()
+			.references(() => mapping.id, { onDelete: 'cascade' }),
+		version: integer().notNull(),
+		document: text({ mode: 'json' }).notNull(),
+		createdAt: now()
+	},
+	(t) => [index('mapping_version_idx').on(t.mappingId, t.version)]
+);
+
+/** One recorded rehearsal (a "session" in the product; the auth tables own that table name). */
+export const rehearsal = sqliteTable(
+	'rehearsal',
+	{
+		id: text().primaryKey(),
+		ownerId: text()
+			.notNull()
+			.references(() => user.id, { onDelete: 'cascade' }),
+		mappingId: text().references(() => mapping.id, { onDelete: 'set null' }),
+		mappingVersionId: text().references(() => mappingVersion.id, { onDelete: 'set null' }),
+		mappingName: text().notNull(),
+		name: text().notNull(),
+		tempo: real().notNull(),
+		startedAt: text().notNull(),
+		status: text({ enum: ['recording', 'saved'] })
+			.default('recording')
+			.notNull(),
+		eventCount: integer().notNull().default(0),
+		durationMs: real().notNull().default(0),
+		findingCount: integer().notNull().default(0),
+		audioFile: text(),
+		audioType: text(),
+		audioBytes: integer(),
+		createdAt: now(),
+		updatedAt: now().$onUpdate(() => new Date())
+	},
+	(t) => [index('rehearsal_owner_idx').on(t.ownerId)]
+);
+
+/** Events arrive in numbered chunks; (rehearsal, seq) is unique so a resent chunk is kept once. */
+export const rehearsalChunk = sqliteTable(
+	'rehearsal_chunk',
+	{
+		rehearsalId: text()
+			.notNull()
+			.references(() => rehearsal.id, { onDelete: 'cascade' }),
+		seq: integer().notNull(),
+		events: text({ mode: 'json' }).notNull(),
+		eventCount: integer().notNull(),
+		receivedAt: now()
+	},
+	(t) => [primaryKey({ columns: [t.rehearsalId, t.seq] })]
+);

@@ -1,7 +1,9 @@
-// Demo data of our own invention: the Mixlab evening school, created once, idempotent.
+// Demo data of our own invention: the Mixlab evening school and its teacher's public demo
+// mappings, created once, idempotent.
 import { hashPassword } from 'better-auth/crypto';
 import { eq } from 'drizzle-orm';
 import { randomUUID } from 'node:crypto';
+import { seedDemoMappings } from '../mappings';
 import type { Role } from '../roles';
 import type { Database } from './index';
 import { account, user } from './schema';
@@ -33,5 +35,7 @@ export async function seedDemo(db: Database): Promise<number> {
 		});
 		created++;
 	}
+	const [teacher] = await db.select({ id: user.id }).from(user).where(eq(user.email, 'tomas@mixlab.example'));
+	if (teacher) await seedDemoMappings(db, teacher.id);
 	return created;
 }

@@ -1,0 +1,46 @@
+import { db } from '$lib/server/db';
+import { readJson, refusalResponse, signedIn } from '$lib/server/http';
+import { deleteMapping, getMapping, saveVersion, setVisibility } from '$lib/server/mappings';
+import { json } from '@sveltejs/kit';
+import { z } from 'zod';
+import type { RequestHandler } from './$types';
+
+export const GET: RequestHandler = async ({ locals, params, url }) => {
+	try {
+		const version = url.searchParams.get('version');
+		const detail = await getMapping(db, signedIn(locals).id, params.id, version ? Number(version) : undefined);
+		return json({ mapping: detail });
+	} catch (e) {
+		return refusalResponse(e);
+	}
+};
+
+export const PUT: RequestHandler = async ({ locals, params, request }) => {
+	try {
+		const user = signedIn(locals);
+		const body = await readJson(request, z.object({ document: z.unknown() }), 2 << 20);
+		return json({ version: await saveVersion(db, user.id, params.id, body.document) });
+	} catch (e) {
+		return refusalResponse(e);
+	}
+};
+
+export const PATCH: RequestHandler = async ({ locals, params, request }) => {
+	try {
+		const user = signedIn(locals);
+		const body = await readJson(request, z.object({ visibility: z.enum(['private', 'public']) }));
+		await setVisibility(db, user.id, params.id, body.visibility);
+		return json({ ok: true });
+	} catch (e) {
+		return refusalResponse(e);
+	}
+};
+
+export const DELETE: RequestHandler = async ({ locals, params }) => {
+	try {
+		await deleteMapping(db, signedIn(locals).id, params.id);
+		return new Response(null, { status: 204 });
+	} catch (e) {
+		return refusalResponse(e);
+	}
+};

@@ -1,0 +1,54 @@
+import { demoMapping } from '$lib/engine';
+import { Refusal } from '$lib/server/http';
+import { createMapping, deleteMapping, getMapping, listMappings, saveVersion, seedDemoMappings } from '$lib/server/mappings';
+import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { demoDatabase } from './factories';
+
+let t: Awaited<ReturnType<typeof demoDatabase>>;
+beforeEach(async () => (t = await demoDatabase()));
+afterEach(() => t.close());
+
+describe('mappings in the database', () => {
+	it('seeds the three demo mappings once, public, owned by the teacher', async () => {
+		expect(await seedDemoMappings(t.db, t.teacher)).toBe(0);
+		const seen = await listMappings(t.db, t.kai);
+		expect(seen.map((m) => m.name).sort()).toEqual(['Broken stutter row', 'Four-deck pad set', 'Two-deck pad set']);
+		expect(seen.every((m) => m.visibility === 'public' && !m.mine && m.demo)).toBe(true);
+		expect(seen.find((m) => m.name === 'Four-deck pad set')?.decks).toBe(4);
+	});
+
+	it('keeps a private mapping from other users', async () => {
+		const id = await createMapping(t.db, t.kai, { document: demoMapping('two-deck'), name: 'Kai set' });
+		expect((await listMappings(t.db, t.kai)).some((m) => m.id === id && m.mine)).toBe(true);
+		expect((await listMappings(t.db, t.lena)).some((m) => m.id === id)).toBe(false);
+		await expect(getMapping(t.db, t.lena, id)).rejects.toMatchObject({ status: 404 });
+	});
+
+	it('refuses an invalid document with readable problems and stores nothing', async () => {
+		const before = (await listMappings(t.db, t.kai)).length;
+		const error = await createMapping(t.db, t.kai, { document: { version: 1, name: '', decks: 3 } }).catch((e) => e);
+		expect(error).toBeInstanceOf(Refusal);
+		expect(error.status).toBe(400);
+		expect(error.message).toMatch(/not a valid mapping document/);
+		expect(error.problems.length).toBeGreaterThan(0);
+		expect((await listMappings(t.db, t.kai)).length).toBe(before);
+	});
+
+	it('saves every change as a new version and keeps the old ones readable', async () => {
+		const id = await createMapping(t.db, t.kai, { document: demoMapping('two-deck') });
+		const changed = { ...demoMapping('two-deck'), name: 'Two-deck, faster', tempo: 128 };
+		expect(await saveVersion(t.db, t.kai, id, changed)).toBe(2);
+		const now = await getMapping(t.db, t.kai, id);
+		expect(now.document.tempo).toBe(128);
+		expect(now.versions.map((v) => v.version)).toEqual([2, 1]);
+		expect((await getMapping(t.db, t.kai, id, 1)).document.tempo).toBe(demoMapping('two-deck').tempo);
+	});
+
+	it('lets only the owner change or delete a public mapping', async () => {
+		const demo = (await listMappings(t.db, t.kai)).find((m) => m.demo)!;
+		await expect(deleteMapping(t.db, t.kai, demo.id)).rejects.toMatchObject({ status: 403 });
+		await expect(saveVersion(t.db, t.kai, demo.id, demoMapping('two-deck'))).rejects.toMatchObject({ status: 403 });
+		await deleteMapping(t.db, t.teacher, demo.id);
+		await expect(getMapping(t.db, t.kai, demo.id)).rejects.toMatchObject({ status: 404 });
+	});
+});

@@ -1,0 +1,78 @@
+import { padId, type SessionEvent } from '$lib/engine';
+import { openDatabase } from '$lib/server/db';
+import { listMappings } from '$lib/server/mappings';
+import { appendChunk, createRehearsal, finishRehearsal, importSession, listRehearsals, sessionDocument } from '$lib/server/rehearsals';
+import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { demoDatabase } from './factories';
+
+let t: Awaited<ReturnType<typeof demoDatabase>>;
+beforeEach(async () => (t = await demoDatabase()));
+afterEach(() => t.close());
+
+const demoId = async (name: string) => (await listMappings(t.db, t.kai)).find((m) => m.name === name)!.id;
+const press = (t: number, pad: number): SessionEvent => ({ t, midi: [0x90, 35 + pad, 100], input: { input: padId(pad), type: 'press' } });
+const release = (t: number, pad: number): SessionEvent => ({ t, midi: [0x80, 35 + pad, 0], input: { input: padId(pad), type: 'release' } });
+
+describe('recording a session in chunks', () => {
+	it('stores a resent chunk once', async () => {
+		const { id } = await createRehearsal(t.db, t.kai, { mappingId: await demoId('Two-deck pad set'), tempo: 120 });
+		const chunk = { seq: 0, events: [press(10, 1), release(200, 1)] };
+		expect(await appendChunk(t.db, t.kai, id, chunk)).toMatchObject({ stored: true, eventCount: 2 });
+		expect(await appendChunk(t.db, t.kai, id, chunk)).toMatchObject({ stored: false, duplicate: true, eventCount: 2 });
+		expect((await sessionDocument(t.db, t.kai, id)).session.events).toHaveLength(2);
+	});
+
+	it('assembles chunks that arrived out of order in time order', async () => {
+		const { id } = await createRehearsal(t.db, t.kai, { mappingId: await demoId('Two-deck pad set'), tempo: 120 });
+		await appendChunk(t.db, t.kai, id, { seq: 1, events: [press(2100, 2), release(2300, 2)] });
+		await appendChunk(t.db, t.kai, id, { seq: 0, events: [press(100, 1), release(400, 1)] });
+		const { session, row } = await sessionDocument(t.db, t.kai, id);
+		expect(session.events.map((e) => e.t)).toEqual([100, 400, 2100, 2300]);
+		expect(row.durationMs).toBe(2300);
+	});
+
+	it('keeps every event across a server restart (a new connection to the same file)', async () => {
+		const { id } = await createRehearsal(t.db, t.kai, { mappingId: await demoId('Two-deck pad set'), tempo: 120 });
+		await appendChunk(t.db, t.kai, id, { seq: 0, events: [press(100, 1)] });
+		t.client.close();
+		const reopened = openDatabase(`file:${t.file}`);
+		await appendChunk(reopened.db, t.kai, id, { seq: 0, events: [press(100, 1)] });
+		await appendChunk(reopened.db, t.kai, id, { seq: 1, events: [release(900, 1)] });
+		expect((await sessionDocument(reopened.db, t.kai, id)).session.events.map((e) => e.t)).toEqual([100, 900]);
+		reopened.client.close();
+		t.client = openDatabase(`file:${t.file}`).client;
+	});
+
+	it("refuses another user's session as if it did not exist", async () => {
+		const { id } = await createRehearsal(t.db, t.kai, { mappingId: await demoId('Two-deck pad set'), tempo: 120 });
+		await expect(appendChunk(t.db, t.lena, id, { seq: 0, events: [] })).rejects.toMatchObject({ status: 404 });
+	});
+
+	it('counts the dropout of the broken row when the session is finished', async () => {
+		// Broken stutter row (top row pads 13–16): press 13, press 14, release 13 cuts the effect
+		// while 14 is held — the dropout the held-pad counter exists to prevent (common practice).
+		const { id } = await createRehearsal(t.db, t.kai, { mappingId: await demoId('Broken stutter row'), tempo: 120 });
+		await appendChunk(t.db, t.kai, id, { seq: 0, events: [press(1000, 13), press(1200, 14), release(1500, 13), release(1800, 14)] });
+		expect(await finishRehearsal(t.db, t.kai, id, 'Chord test')).toEqual({ findings: 1 });
+		const [row] = await listRehearsals(t.db, t.kai, 'chord');
+		expect(row).toMatchObject({ status: 'saved', findingCount: 1, eventCount: 4, name: 'Chord test' });
+	});
+});
+
+describe('importing a session document', () => {
+	it('refuses a bad file with a readable reason and stores nothing', async () => {
+		const mappingId = await demoId('Two-deck pad set');
+		const bad = { version: 1, tempo: 120, startedAt: '2026-12-01T20:00:00Z', events: [press(500, 1), release(100, 1)] };
+		await expect(importSession(t.db, t.kai, mappingId, bad)).rejects.toMatchObject({ status: 400, message: expect.stringMatching(/time order/) });
+		expect(await listRehearsals(t.db, t.kai)).toEqual([]);
+	});
+
+	it('saves a good file as a finished session', async () => {
+		const mappingId = await demoId('Two-deck pad set');
+		const doc = { version: 1, tempo: 124, startedAt: '2026-12-01T20:00:00Z', events: [press(500, 1), release(900, 1)] };
+		const id = await importSession(t.db, t.kai, mappingId, doc, 'From file');
+		const { session, row } = await sessionDocument(t.db, t.kai, id);
+		expect(row.status).toBe('saved');
+		expect(session).toEqual({ ...doc, mapping: 'Two-deck pad set' });
+	});
+});
