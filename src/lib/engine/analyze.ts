@@ -101,6 +101,9 @@ export function analyze(mapping: Mapping, events: readonly InputEvent[], options
 	const findings: Finding[] = [];
 	const open = new Map<string, Finding>();
 	const clashed = new Set<string>();
+	// Which conditions held after the latest event, without a new Set per event.
+	const lastSeen = new Map<string, number>();
+	let stamp = 0;
 	let watch: WatchState = initialWatch(rules);
 	runEvents(mapping, events, { ...options, from: options.from ?? initialRigState(mapping) }, (result, prior, index, at) => {
 		const e = events[index];
@@ -116,9 +119,9 @@ export function analyze(mapping: Mapping, events: readonly InputEvent[], options
 		// Same state and same watch: the same conditions hold, nothing opens or closes.
 		if (!result.changes.length && watch === seen) return;
 		const now = conditions(rules, result.state, watch);
-		const live = new Set<string>();
+		stamp++;
 		for (const c of now) {
-			live.add(c.key);
+			lastSeen.set(c.key, stamp);
 			if (open.has(c.key)) continue;
 			const binding = unitBinding(mapping, rules, c, e.input, result.state);
 			const f: Finding = {
@@ -137,7 +140,7 @@ export function analyze(mapping: Mapping, events: readonly InputEvent[], options
 			findings.push(f);
 		}
 		for (const [key, f] of open)
-			if (!live.has(key)) {
+			if (lastSeen.get(key) !== stamp) {
 				f.end = at;
 				open.delete(key);
 			}

@@ -154,15 +154,19 @@ function stepValue(step: CompiledStep, type: InputEvent['type'], knob: number | 
 	return step.action === 'set' ? step.value : 0;
 }
 
+// No closures on the hot path: each one costs an allocation per step.
+function switched(was: boolean, flip: boolean, v: unknown): boolean {
+	return flip ? !was : v === 1;
+}
+
 function runStep(d: Draft, step: CompiledStep, type: InputEvent['type'], knob: number | undefined) {
 	const v = stepValue(step, type, knob);
 	if (v === undefined) return;
 	const flip = v === 'flip';
-	const on = (was: boolean) => (flip ? !was : v === 1);
 	const ri = step.rack;
 	switch (step.kind) {
 		case T.rackOn: {
-			const to = on(d.peek(ri).on);
+			const to = switched(d.peek(ri).on, flip, v);
 			if (to === d.peek(ri).on) return;
 			d.record(step.path, !to, to);
 			d.rack(ri).on = to;
@@ -185,7 +189,7 @@ function runStep(d: Draft, step: CompiledStep, type: InputEvent['type'], knob: n
 		case T.rackRoute: {
 			const deck = step.deck!;
 			const from = d.peek(ri).routes[deck];
-			const to = on(from);
+			const to = switched(from, flip, v);
 			if (to === from) return;
 			d.record(step.path, from, to);
 			const r = d.rack(ri);
@@ -200,7 +204,7 @@ function runStep(d: Draft, step: CompiledStep, type: InputEvent['type'], knob: n
 				step.kind === T.slotEffect
 					? { ...old, effect: v as RackState['slots'][0]['effect'] }
 					: step.kind === T.slotOn
-						? { ...old, on: on(old.on) }
+						? { ...old, on: switched(old.on, flip, v) }
 						: { ...old, amount: v as number };
 			const key = step.kind === T.slotEffect ? 'effect' : step.kind === T.slotOn ? 'on' : 'amount';
 			if (old[key] === next[key]) return;
@@ -220,7 +224,7 @@ function runStep(d: Draft, step: CompiledStep, type: InputEvent['type'], knob: n
 		case T.deckPlay: {
 			const deck = step.deck!;
 			const cur = (d.decks ?? d.base.decks)[deck].playing;
-			const to = on(cur);
+			const to = switched(cur, flip, v);
 			if (to === cur) return;
 			d.record(step.path, cur, to);
 			d.decks = { ...(d.decks ?? d.base.decks), [deck]: { playing: to } };
@@ -254,8 +258,12 @@ function runCounter(d: Draft, step: CompiledStep, v: unknown, type: InputEvent['
 
 function nextHeld(held: string[], event: InputEvent): string[] {
 	if (event.type === 'press') return held.includes(event.input) ? held : [...held, event.input];
-	if (event.type === 'release' && held.includes(event.input)) return held.filter((h) => h !== event.input);
-	return held;
+	if (event.type !== 'release') return held;
+	const at = held.indexOf(event.input);
+	if (at < 0) return held;
+	const next = held.slice();
+	next.splice(at, 1);
+	return next;
 }
 
 /**

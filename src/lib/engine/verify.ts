@@ -46,6 +46,9 @@ class Search {
 	readonly clashing: boolean[];
 	head = 0;
 	found = -1;
+	readonly codes: number[] = [];
+	/** What the key keeps of "who last set up a rack": its target deck and whether it latches. */
+	readonly ownerCode: number[];
 
 	constructor(
 		readonly mapping: Mapping,
@@ -53,6 +56,7 @@ class Search {
 	) {
 		this.rules = rulesFor(mapping);
 		this.clashing = inputs.map((i) => this.rules.clashInputs.has(i));
+		this.ownerCode = [0, ...mapping.bindings.map((b) => 1 + (b.deck ? DECK_IDS.indexOf(b.deck) : 4) + (b.intent === 'latched' ? 8 : 0))];
 		const s = initialRigState(mapping);
 		const w = initialWatch(this.rules);
 		this.push(s, w, -1, -1, 0);
@@ -68,34 +72,40 @@ class Search {
 	}
 
 	key(s: RigState, w: WatchState): string {
-		const codes: number[] = [];
+		const codes = this.codes;
+		codes.length = 0;
 		let held = 0;
 		let bit = 0;
-		for (const input of this.inputs) {
-			if (s.held.includes(input)) held |= 1 << bit;
-			if (++bit === 16) (codes.push(held), (held = 0), (bit = 0));
+		for (let k = 0; k < this.inputs.length; k++) {
+			if (s.held.includes(this.inputs[k])) held |= 1 << bit;
+			if (++bit === 16) {
+				codes.push(held);
+				held = bit = 0;
+			}
 		}
 		codes.push(held);
-		s.racks.forEach((r, i) => {
+		for (let i = 0; i < s.racks.length; i++) {
+			const r = s.racks[i];
 			let x = (r.on ? 1 : 0) | (r.mode === 'focus' ? 2 : 0) | (r.mix > 0 ? 4 : 0);
-			r.slots.forEach((sl, k) => (x |= ((sl.effect !== null ? 1 : 0) | (sl.on ? 2 : 0)) << (3 + 2 * k)));
-			DECK_IDS.forEach((d, k) => (x |= (r.routes[d] ? 1 : 0) << (9 + k)));
-			codes.push(x);
-			const b = w.toucher[i];
-			const owner = b < 0 ? 0 : this.rules.bindings[b];
-			codes.push(owner ? 1 + DECK_IDS.indexOf(owner.deck ?? 'A') + (owner.deck ? 0 : 8) + (owner.intent === 'latched' ? 16 : 0) : 0);
-		});
+			for (let k = 0; k < r.slots.length; k++)
+				x |= ((r.slots[k].effect !== null ? 1 : 0) | (r.slots[k].on ? 2 : 0)) << (3 + 2 * k);
+			for (let k = 0; k < DECK_IDS.length; k++) x |= (r.routes[DECK_IDS[k]] ? 1 : 0) << (9 + k);
+			codes.push(x, this.ownerCode[w.toucher[i] + 1]);
+		}
 		let decks = 0;
-		DECK_IDS.forEach((d, k) => (decks |= (s.decks[d].playing ? 1 : 0) << k));
+		for (let k = 0; k < DECK_IDS.length; k++) decks |= (s.decks[DECK_IDS[k]].playing ? 1 : 0) << k;
 		codes.push(decks);
 		for (const c of this.mapping.counters) codes.push(s.counters[c.id] ?? 0);
 		let used = 0;
-		w.used.forEach((u, i) => {
-			if (u) used |= 1 << i % 16;
-			if (i % 16 === 15) (codes.push(used), (used = 0));
-		});
+		for (let i = 0; i < w.used.length; i++) {
+			if (w.used[i]) used |= 1 << i % 16;
+			if (i % 16 === 15) {
+				codes.push(used);
+				used = 0;
+			}
+		}
 		codes.push(used);
-		return String.fromCharCode(...codes);
+		return String.fromCharCode.apply(null, codes);
 	}
 
 	/** Explore up to `budget` states; true when the search is over. */

@@ -17,6 +17,7 @@ export interface Unit {
 	key: string;
 	name: string; // for messages: the group id or the pad's label
 	deck: DeckId | null; // null: no target deck, any deck counts
+	decks: DeckId[]; // [deck], or empty when deck is null
 	inputs: Set<string>;
 	racks: number[]; // 1-based
 }
@@ -71,9 +72,18 @@ function racksOf(b: Binding): number[] {
 	return [...(on.size ? on : any)].sort();
 }
 
+const names = new WeakMap<Mapping, Map<string, string>>();
+
+/** How messages name an input: its label in the profile, else its binding's label, else its id. */
 export function inputName(mapping: Mapping, input: string): string {
-	const i = mapping.profile.inputs.find((x) => x.id === input);
-	return i?.label || mapping.bindings.find((b) => b.input === input)?.label || input;
+	let map = names.get(mapping);
+	if (!map) {
+		map = new Map();
+		for (const b of [...mapping.bindings].reverse()) if (b.label) map.set(b.input, b.label);
+		for (const i of mapping.profile.inputs) if (i.label) map.set(i.id, i.label);
+		names.set(mapping, map);
+	}
+	return map.get(input) ?? input;
 }
 
 export function addressText(i: Mapping['profile']['inputs'][0]): string {
@@ -95,7 +105,7 @@ function buildRules(m: Mapping): Rules {
 		if (u === undefined) {
 			u = units.length;
 			unitIndex.set(key, u);
-			units.push({ key, name: b.group ?? inputName(m, b.input), deck: b.deck ?? null, inputs: new Set(), racks: [] });
+			units.push({ key, name: b.group ?? inputName(m, b.input), deck: b.deck ?? null, decks: b.deck ? [b.deck] : [], inputs: new Set(), racks: [] });
 		}
 		const unit = units[u];
 		unit.inputs.add(b.input);
@@ -148,11 +158,15 @@ export function initialWatch(rules: Rules): WatchState {
 	return { used: new Uint8Array(rules.units.length), toucher: new Int32Array(RACK_COUNT).fill(-1) };
 }
 
+function isUsed(this: WatchState, u: number): boolean {
+	return this.used[u] === 1;
+}
+
 /** Record what one applied event means for the watch: units played, who last set up each rack. */
 export function observe(rules: Rules, w: WatchState, input: string, type: string, touched: number): WatchState {
 	const units = type === 'press' ? rules.unitsByInput.get(input) : undefined;
 	let next = w;
-	if (units?.some((u) => !w.used[u])) {
+	if (units && !units.every(isUsed, w)) {
 		next = { used: w.used.slice(), toucher: w.toucher };
 		for (const u of units) next.used[u] = 1;
 	}
@@ -173,30 +187,36 @@ export function touchedRacks(changes: { path: string }[]): number {
 	return bits;
 }
 
-const heldAny = (held: string[], inputs: Set<string>) => held.some((h) => inputs.has(h));
+// Plain loops below: this runs for every event of a replay and every edge of the verifier.
+function heldAny(held: string[], inputs: Set<string>): boolean {
+	for (let i = 0; i < held.length; i++) if (inputs.has(held[i])) return true;
+	return false;
+}
 
-function audibleOn(s: RigState, racks: number[], deck: DeckId) {
-	return racks.some((r) => isAudible(s, r, deck));
+function audibleOn(s: RigState, racks: number[], deck: DeckId): boolean {
+	for (let i = 0; i < racks.length; i++) if (isAudible(s, racks[i], deck)) return true;
+	return false;
 }
 
 /** Every finding condition that holds in this state, in a fixed order. */
 export function conditions(rules: Rules, s: RigState, w: WatchState): Condition[] {
 	const out: Condition[] = [];
-	rules.units.forEach((u, ui) => {
-		const decks = u.deck ? [u.deck] : rules.decks;
-		const held = heldAny(s.held, u.inputs);
-		if (held) {
-			if (!decks.some((d) => audibleOn(s, u.racks, d)))
-				out.push({ kind: 'dropout', key: `dropout|${u.key}`, unit: ui, rack: u.racks[0], deck: u.deck, counter: null, binding: null });
-			return;
+	for (let ui = 0; ui < rules.units.length; ui++) {
+		const u = rules.units[ui];
+		const decks = u.deck ? u.decks : rules.decks;
+		if (heldAny(s.held, u.inputs)) {
+			let heard = false;
+			for (let k = 0; k < decks.length && !heard; k++) heard = audibleOn(s, u.racks, decks[k]);
+			if (!heard) out.push({ kind: 'dropout', key: `dropout|${u.key}`, unit: ui, rack: u.racks[0], deck: u.deck, counter: null, binding: null });
+			continue;
 		}
-		if (!w.used[ui]) return;
+		if (!w.used[ui]) continue;
 		for (const d of decks)
 			for (const r of u.racks) {
 				if (!isAudible(s, r, d) || !setUpBy(rules, w, r, u) || claimed(rules, s, w, r, d)) continue;
 				out.push({ kind: 'stuck', key: `stuck|${u.key}|${r}|${d}`, unit: ui, rack: r, deck: d, counter: null, binding: null });
 			}
-	});
+	}
 	for (let r = 1; r <= RACK_COUNT; r++) {
 		const b = w.toucher[r - 1];
 		const target = b >= 0 ? rules.bindings[b].deck : undefined;
