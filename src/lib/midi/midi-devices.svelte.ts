@@ -14,6 +14,13 @@ export interface MidiPortInfo {
 	state: 'connected' | 'disconnected';
 }
 
+interface PortLike {
+	id: string;
+	name?: string | null;
+	manufacturer?: string | null;
+	state: string;
+}
+
 export type MessageListener = (portId: string, bytes: Uint8Array, t: number) => void;
 export type PortListener = (port: MidiPortInfo) => void;
 
@@ -133,7 +140,7 @@ export class MidiDevices {
 		const seen = new Set<string>();
 		const arrived: MidiPortInfo[] = [];
 		const gone: MidiPortInfo[] = [];
-		const visit = (port: MIDIPort, kind: 'input' | 'output') => {
+		const visit = (port: PortLike, kind: 'input' | 'output') => {
 			const info: MidiPortInfo = {
 				id: port.id,
 				name: port.name ?? port.id,

@@ -1,14 +1,15 @@
 // Which pads are lit for a rig state, and the bank of device outputs that show it. A pad is lit
-// while its effect is on: any rack its binding drives is audible (DESIGN.md §4.4) on the
-// binding's deck, or on any deck when the binding names none; a deck-play binding is lit while
-// its deck plays. The rule reads engine state only; it never decides what a step does.
-import { isAudible } from '$lib/engine/rig';
-import { DECK_IDS, type DeckId, type Mapping, type ControllerProfile, type RigState } from '$lib/engine/types';
+// while its effect is on: a rack it drives is audible (DESIGN.md §4.4) on the binding's deck (any
+// deck when it names none) and, when the binding chooses an effect, that effect is still the one
+// in its slot and on — so of several pads sharing a rack only the one playing lights. A deck-play
+// binding is lit while its deck plays. The rule reads engine state; it never decides a step.
+import { DECK_IDS, isAudible, type ControllerProfile, type DeckId, type Mapping, type RigState } from '$lib/engine';
 import { LightFeedback, type LightOptions, type MidiSink } from './lights';
 
 interface LightRule {
 	input: string;
-	racks: number[];
+	racks: number[]; // 1-based
+	effects: { rack: number; slot: number; effect: string }[];
 	decks: readonly DeckId[];
 	plays: DeckId[];
 }
@@ -21,11 +22,15 @@ function rulesFor(mapping: Mapping): LightRule[] {
 	list = mapping.bindings.map((b) => {
 		const racks = new Set<number>();
 		const plays = new Set<DeckId>();
-		for (const { target } of b.steps) {
+		const effects: LightRule['effects'] = [];
+		for (const { target, action, value } of b.steps) {
 			if ('rack' in target) racks.add(target.rack);
 			else if (target.kind === 'deck-play') plays.add(target.deck);
+			if (target.kind === 'slot-effect' && action === 'set' && typeof value === 'string') {
+				effects.push({ rack: target.rack, slot: target.slot, effect: value });
+			}
 		}
-		return { input: b.input, racks: [...racks], decks: b.deck ? [b.deck] : DECK_IDS, plays: [...plays] };
+		return { input: b.input, racks: [...racks], effects, decks: b.deck ? [b.deck] : DECK_IDS, plays: [...plays] };
 	});
 	rules.set(mapping, list);
 	return list;
@@ -35,9 +40,13 @@ export function litInputs(mapping: Mapping, state: RigState): Set<string> {
 	const lit = new Set<string>();
 	for (const rule of rulesFor(mapping)) {
 		if (lit.has(rule.input)) continue;
-		const on =
-			rule.racks.some((r) => rule.decks.some((d) => isAudible(state, r, d))) ||
-			rule.plays.some((d) => state.decks[d].playing);
+		const audible = (r: number) => rule.decks.some((d) => isAudible(state, r, d));
+		const on = rule.effects.length
+			? rule.effects.some(({ rack, slot, effect }) => {
+					const s = state.racks[rack - 1]?.slots[slot - 1];
+					return s?.effect === effect && s.on && audible(rack);
+				})
+			: rule.racks.some(audible) || rule.plays.some((d) => state.decks[d].playing);
 		if (on) lit.add(rule.input);
 	}
 	return lit;
