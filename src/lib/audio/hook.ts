@@ -2,7 +2,7 @@
 // tests and the benchmark render offline through it and measure the samples themselves.
 import { EFFECTS } from '$lib/engine/effects';
 import { DEMO_LOOPS } from './loops/patterns';
-import { renderRig, type RenderSpec } from './render';
+import type { RenderSpec } from './render';
 
 export interface RenderedForScript {
 	sampleRate: number;
@@ -31,6 +31,7 @@ export function installSoundsHook(target: { padproofSounds?: SoundsHook }): void
 		effects: Object.keys(EFFECTS),
 		async render(spec) {
 			const started = performance.now();
+			const { renderRig } = await import('./render');
 			const rendered = await renderRig(spec);
 			return {
 				sampleRate: rendered.sampleRate,

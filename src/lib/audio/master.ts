@@ -4,9 +4,9 @@
 // 6 ms in Chromium) and make-up gain to every pad press; this adds neither.
 import { Gain, Meter, WaveShaper } from 'tone';
 import { rampParam } from './effects/effect';
-import { dbToGain } from './mix';
+import { DEFAULT_MASTER_DB, dbToGain } from './mix';
 
-export const DEFAULT_MASTER_DB = -12;
+export { DEFAULT_MASTER_DB };
 export const CEILING_DB = -1;
 const KNEE_DB = -3;
 const RANGE = 16; // the shaper's input covers ±16 (+24 dBFS) before it clamps

@@ -1,6 +1,9 @@
 // Level arithmetic shared by racks, master and tests. Equal-power law as in the Web Audio API's
 // StereoPannerNode algorithm: gains cos(x·π/2) and sin(x·π/2) for x in 0..1.
 
+/** The master's level when sound first starts (DESIGN.md §5: moderate). */
+export const DEFAULT_MASTER_DB = -12;
+
 export interface MixGains {
 	dry: number;
 	wet: number;

@@ -38,7 +38,16 @@ export interface Rendered {
 
 export const RENDER_RATE = 48000;
 
-export async function renderRig(spec: RenderSpec): Promise<Rendered> {
+let queue: Promise<unknown> = Promise.resolve();
+
+/** Renders one at a time: Tone.Offline swaps Tone's current context while a render is built. */
+export function renderRig(spec: RenderSpec): Promise<Rendered> {
+	const next = queue.then(() => renderNow(spec));
+	queue = next.catch(() => undefined);
+	return next;
+}
+
+async function renderNow(spec: RenderSpec): Promise<Rendered> {
 	const sampleRate = spec.sampleRate ?? RENDER_RATE;
 	let lookAhead = 0;
 	const buffer = await Offline(

@@ -1,7 +1,7 @@
 // AudioRig: the one Tone.js graph of a rehearsal (DESIGN.md §5). It follows the engine — every
 // RigChange is scheduled at its event time plus a fixed look-ahead, rounded to a frame, so all
 // changes of one event land on the same audio frame — and never decides what a step does.
-import { getContext, type BaseContext } from 'tone';
+import { getContext, setContext, type BaseContext } from 'tone';
 import { DECK_IDS, type DeckId, type RigChange, type RigState } from '$lib/engine/types';
 import { BeatClock } from './beat-clock';
 import { DeckChannel } from './deck';
@@ -32,12 +32,13 @@ export class AudioRig {
 
 	/** Builds the rig on the current Tone context once its worklets are loaded. */
 	static async create(options: AudioRigOptions = {}): Promise<AudioRig> {
-		await loadCrusher(getContext());
-		return new AudioRig(options);
+		const context = getContext();
+		await loadCrusher(context);
+		return within(context, () => new AudioRig(context, options));
 	}
 
-	private constructor({ tempo = 120, origin = 0, lookAhead = LOOK_AHEAD, state = quietRig() }: AudioRigOptions) {
-		this.context = getContext();
+	private constructor(context: BaseContext, { tempo = 120, origin = 0, lookAhead = LOOK_AHEAD, state = quietRig() }: AudioRigOptions) {
+		this.context = context;
 		this.origin = origin;
 		this.lookAhead = lookAhead;
 		this.clock = new BeatClock(tempo, origin);
@@ -56,14 +57,22 @@ export class AudioRig {
 		return this.clock.bpmAt(this.context.currentTime);
 	}
 
-	/** The context time a change at session time `t` (ms) sounds at, on a frame boundary. */
+	/**
+	 * The context time a change at session time `t` (ms) sounds at: on a frame. It sits a quarter
+	 * frame early so that frame is the first to hear it whether the browser rounds event times
+	 * up or to nearest (seconds × rate is rarely an exact integer in floating point).
+	 */
 	timeOf(t: number): number {
 		const rate = this.context.sampleRate;
-		return Math.round((this.origin + t / 1000 + this.lookAhead) * rate) / rate;
+		return (Math.round((this.origin + t / 1000 + this.lookAhead) * rate) - 0.25) / rate;
 	}
 
 	/** Follows a list of engine changes; consecutive changes of one event share one time. */
 	apply(changes: readonly RigChange[]): void {
+		within(this.context, () => this.#apply(changes));
+	}
+
+	#apply(changes: readonly RigChange[]) {
 		let i = 0;
 		while (i < changes.length) {
 			const event = changes[i].event;
@@ -77,17 +86,18 @@ export class AudioRig {
 	/** Takes over a whole state at once (a session starting, a seek in replay). */
 	sync(state: RigState, time = this.context.currentTime): void {
 		this.#state = structuredClone(state);
-		this.#follow({ racks: new Set(state.racks.map((_, i) => i)), decks: new Set(DECK_IDS) }, time);
+		const touched = { racks: new Set(state.racks.map((_, i) => i)), decks: new Set<string>(DECK_IDS) };
+		within(this.context, () => this.#follow(touched, time));
 	}
 
 	setTempo(bpm: number, time = this.context.currentTime): void {
 		this.clock.setTempo(bpm, time);
 		this.context.transport.bpm.setValueAtTime(bpm, time);
-		for (const d of DECK_IDS) this.decks[d].retime(time);
+		within(this.context, () => DECK_IDS.forEach((d) => this.decks[d].retime(time)));
 	}
 
 	setLoop(deck: DeckId, loop: DemoLoop | null, time = this.context.currentTime): void {
-		this.decks[deck].setLoop(loop, time);
+		within(this.context, () => this.decks[deck].setLoop(loop, time));
 	}
 
 	/** Starts the beat clock's transport (gate cycles run on it) at the clock's origin. */
@@ -111,5 +121,20 @@ export class AudioRig {
 		this.context.transport.cancel(0);
 		for (const d of DECK_IDS) this.decks[d].dispose();
 		this.master.dispose();
+	}
+}
+
+/**
+ * Runs `build` with `context` as Tone's current context. Tone nodes take the current context when
+ * made, and a live rig and an offline render (WAV export) can both exist on one page.
+ */
+function within<T>(context: BaseContext, build: () => T): T {
+	const previous = getContext();
+	if (previous === context) return build();
+	setContext(context);
+	try {
+		return build();
+	} finally {
+		setContext(previous);
 	}
 }

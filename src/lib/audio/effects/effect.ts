@@ -2,7 +2,8 @@
 // slot around it decides how dry and wet meet (see rack-insert.ts). Parameters arrive as the
 // rig stores them, 0..1 per catalog parameter id (engine/effects.ts), and each class scales them.
 import { Gain } from 'tone';
-import { EFFECTS, divisionFromValue, divisionMs, type EffectParam } from '$lib/engine/effects';
+import { EFFECTS, divisionFromValue, divisionMs } from '$lib/engine/effects';
+import { scaleParam, spec } from '../params';
 import type { EffectId } from '$lib/engine/types';
 
 /** `add`: the slot keeps the dry signal and adds the wet (echoes, reverb); `replace`: wet only. */
@@ -11,6 +12,8 @@ export type ChainBlend = 'add' | 'replace';
 export interface EffectOptions {
 	bpm: number;
 }
+
+export { scaleParam, spec };
 
 export abstract class RackEffect {
 	abstract readonly id: EffectId;
@@ -75,31 +78,28 @@ export abstract class RackEffect {
 	}
 }
 
-export function spec(effect: EffectId, param: string): EffectParam {
-	const found = EFFECTS[effect].params.find((p) => p.id === param);
-	if (!found) throw new Error(`${effect} has no parameter ${param}`);
-	return found;
-}
-
-/** 0..1 onto a continuous parameter's range (linear, or exponential for frequencies and times). */
-export function scaleParam(param: EffectParam, value: number): number {
-	const v = Math.min(1, Math.max(0, value));
-	if (!param.range) return v;
-	const { min, max, curve } = param.range;
-	return curve === 'exp' ? min * Math.pow(max / min, v) : min + (max - min) * v;
-}
-
 export interface Automatable {
 	cancelAndHoldAtTime(time: number): unknown;
+	cancelScheduledValues(time: number): unknown;
 	setValueAtTime(value: number, time: number): unknown;
 	linearRampToValueAtTime(value: number, time: number): unknown;
 }
 
 /** Moves a parameter to `value` at `time` over `fade` seconds, from whatever it holds then. */
 export function rampParam(param: Automatable, value: number, time: number, fade: number): void {
-	param.cancelAndHoldAtTime(time);
-	if (fade > 0) param.linearRampToValueAtTime(value, time + fade);
-	else param.setValueAtTime(value, time);
+	if (fade > 0) {
+		param.cancelAndHoldAtTime(time);
+		param.linearRampToValueAtTime(value, time + fade);
+	} else setAt(param, value, time);
+}
+
+/**
+ * Jumps a parameter to `value` exactly at `time`. A hold event and a set at the same time leave
+ * the old value on that first frame in Chromium, so this drops later events instead of holding.
+ */
+export function setAt(param: Automatable, value: number, time: number): void {
+	param.cancelScheduledValues(time);
+	param.setValueAtTime(value, time);
 }
 
 /**

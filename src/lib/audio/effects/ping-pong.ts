@@ -50,8 +50,9 @@ export class PingPong extends RackEffect {
 	}
 
 	protected retime(time: number, glide = 0.02) {
-		const loop = this.seconds('time') - cycleLag(this.input.context.sampleRate);
-		rampParam(this.#left.delayTime, loop, time, glide);
-		rampParam(this.#right.delayTime, loop, time, glide);
+		// The left→right→left cycle runs one quantum late once per round: only one side pays it.
+		const seconds = this.seconds('time');
+		rampParam(this.#left.delayTime, seconds - cycleLag(this.input.context.sampleRate), time, glide);
+		rampParam(this.#right.delayTime, seconds, time, glide);
 	}
 }

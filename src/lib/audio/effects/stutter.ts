@@ -1,5 +1,5 @@
 import { Delay, Gain } from 'tone';
-import { RackEffect, cycleLag, rampParam, type EffectOptions } from './effect';
+import { RackEffect, cycleLag, rampParam, setAt, type EffectOptions } from './effect';
 
 const MAX_DROP = 0.25; // pitch drop at full knob: playback at 75 % speed (about −5 semitones)
 const HORIZON = 60; // seconds a held stutter can keep dropping before the ramp ends
@@ -44,24 +44,25 @@ export class Stutter extends RackEffect {
 		const repeatAt = time + slice;
 		rampParam(this.#loop.delayTime, slice - cycleLag(this.input.context.sampleRate), time, 0);
 		const capture = this.#capture.gain;
-		capture.cancelAndHoldAtTime(time);
-		capture.setValueAtTime(0, time);
 		if (edge > 0) {
+			setAt(capture, 0, time);
 			capture.linearRampToValueAtTime(1, time + edge);
 			capture.setValueAtTime(1, repeatAt - edge);
 			capture.linearRampToValueAtTime(0, repeatAt);
 		} else {
-			capture.setValueAtTime(1, time);
+			setAt(capture, 1, time);
 			capture.setValueAtTime(0, repeatAt);
 		}
 		this.#switch(this.#recycle.gain, 0, 1, time, repeatAt);
 		this.#switch(this.#live.gain, 1, 0, time, repeatAt);
 		this.#switch(this.#repeats.gain, 0, 1, time, repeatAt);
 		const drop = this.#drop.delayTime;
-		drop.cancelAndHoldAtTime(time);
-		drop.setValueAtTime(0, repeatAt);
+		setAt(drop, 0, time);
 		const rate = MAX_DROP * (this.values.pitch ?? 0);
-		if (rate > 0) drop.linearRampToValueAtTime(rate * HORIZON, repeatAt + HORIZON);
+		if (rate > 0) {
+			drop.setValueAtTime(0, repeatAt);
+			drop.linearRampToValueAtTime(rate * HORIZON, repeatAt + HORIZON);
+		}
 	}
 
 	release(time: number) {
@@ -74,8 +75,7 @@ export class Stutter extends RackEffect {
 	}
 
 	#switch(param: Gain['gain'], first: number, then: number, time: number, at: number) {
-		param.cancelAndHoldAtTime(time);
-		param.setValueAtTime(first, time);
+		setAt(param, first, time);
 		param.setValueAtTime(then, at);
 	}
 }
