@@ -3,18 +3,20 @@
 // deck when it names none) and, when the binding chooses an effect, that effect is still the one
 // in its slot and on — so of several pads sharing a rack only the one playing lights. A deck-play
 // binding is lit while its deck plays. The rule reads engine state; it never decides a step.
-import { DECK_IDS, isAudible, type ControllerProfile, type DeckId, type Mapping, type RigState } from '$lib/engine';
+// Relative, not $lib: Node scripts (the benchmark) load this module without SvelteKit's aliases.
+import { DECK_IDS, isAudible, type ControllerProfile, type DeckId, type Mapping, type RigState } from '../engine';
 import { LightFeedback, type LightOptions, type MidiSink } from './lights';
 
 interface LightRule {
 	input: string;
-	racks: number[]; // 1-based
-	effects: { rack: number; slot: number; effect: string }[];
-	decks: readonly DeckId[];
+	racks: number[]; // 0-based
+	effects: { rack: number; slot: number; effect: string }[]; // 0-based rack and slot
+	deckMask: number; // bit i: DECK_IDS[i]
 	plays: DeckId[];
 }
 
 const rules = new WeakMap<Mapping, LightRule[]>();
+const lastLit = new WeakMap<RigState, { mapping: Mapping; lit: Set<string> }>();
 
 function rulesFor(mapping: Mapping): LightRule[] {
 	let list = rules.get(mapping);
@@ -24,31 +26,50 @@ function rulesFor(mapping: Mapping): LightRule[] {
 		const plays = new Set<DeckId>();
 		const effects: LightRule['effects'] = [];
 		for (const { target, action, value } of b.steps) {
-			if ('rack' in target) racks.add(target.rack);
+			if ('rack' in target) racks.add(target.rack - 1);
 			else if (target.kind === 'deck-play') plays.add(target.deck);
 			if (target.kind === 'slot-effect' && action === 'set' && typeof value === 'string') {
-				effects.push({ rack: target.rack, slot: target.slot, effect: value });
+				effects.push({ rack: target.rack - 1, slot: target.slot - 1, effect: value });
 			}
 		}
-		return { input: b.input, racks: [...racks], effects, decks: b.deck ? [b.deck] : DECK_IDS, plays: [...plays] };
+		const deckMask = b.deck ? 1 << DECK_IDS.indexOf(b.deck) : (1 << DECK_IDS.length) - 1;
+		return { input: b.input, racks: [...racks], effects, deckMask, plays: [...plays] };
 	});
 	rules.set(mapping, list);
 	return list;
 }
 
+/** Bit (rack × 4 + deck index) set when that rack is audible on that deck. */
+function audibleBits(state: RigState): number {
+	let bits = 0;
+	for (let r = 0; r < state.racks.length; r++) {
+		if (!state.racks[r].on) continue;
+		for (let d = 0; d < DECK_IDS.length; d++) if (isAudible(state, r + 1, DECK_IDS[d])) bits |= 1 << (r * 4 + d);
+	}
+	return bits;
+}
+
+/** The lit inputs for a state; the same Set comes back for the same state (treat it as read-only). */
 export function litInputs(mapping: Mapping, state: RigState): Set<string> {
+	const cached = lastLit.get(state);
+	if (cached && cached.mapping === mapping) return cached.lit;
+	const audible = audibleBits(state);
 	const lit = new Set<string>();
 	for (const rule of rulesFor(mapping)) {
 		if (lit.has(rule.input)) continue;
-		const audible = (r: number) => rule.decks.some((d) => isAudible(state, r, d));
-		const on = rule.effects.length
-			? rule.effects.some(({ rack, slot, effect }) => {
-					const s = state.racks[rack - 1]?.slots[slot - 1];
-					return s?.effect === effect && s.on && audible(rack);
-				})
-			: rule.racks.some(audible) || rule.plays.some((d) => state.decks[d].playing);
+		let on = false;
+		if (rule.effects.length) {
+			for (const { rack, slot, effect } of rule.effects) {
+				const s = state.racks[rack]?.slots[slot];
+				if (s && s.on && s.effect === effect && (audible >> (rack * 4)) & rule.deckMask) on = true;
+			}
+		} else {
+			for (const rack of rule.racks) if ((audible >> (rack * 4)) & rule.deckMask) on = true;
+			for (const deck of rule.plays) if (state.decks[deck].playing) on = true;
+		}
 		if (on) lit.add(rule.input);
 	}
+	lastLit.set(state, { mapping, lit });
 	return lit;
 }
 
