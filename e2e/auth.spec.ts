@@ -1,9 +1,9 @@
 import { expect, test } from '@playwright/test';
-import { DEMO, DEMO_PASSWORD, signIn } from './support';
+import { DEMO, DEMO_PASSWORD, open, signIn } from './support';
 
 test('a new performer signs up, lands in the app, signs out and signs back in', async ({ page }) => {
 	const email = `nia.${Date.now()}@example.com`;
-	await page.goto('/signup');
+	await open(page, '/signup');
 	await page.getByLabel('Name').fill('Nia Brook');
 	await page.getByLabel('Email').fill(email);
 	await page.getByLabel('Password', { exact: true }).fill('loop-station-9');
@@ -24,7 +24,7 @@ test('a new performer signs up, lands in the app, signs out and signs back in', 
 });
 
 test('sign-up explains a password mismatch and keeps what was typed', async ({ page }) => {
-	await page.goto('/signup');
+	await open(page, '/signup');
 	await page.getByLabel('Name').fill('Rae');
 	await page.getByLabel('Email').fill('rae@example.com');
 	await page.getByLabel('Password', { exact: true }).fill('first-try-1');
@@ -35,7 +35,7 @@ test('sign-up explains a password mismatch and keeps what was typed', async ({ p
 });
 
 test('a wrong password is refused with a plain message', async ({ page }) => {
-	await page.goto('/signin');
+	await open(page, '/signin');
 	await page.getByLabel('Email').fill(DEMO.student);
 	await page.getByLabel('Password').fill('not-the-password');
 	await page.getByRole('button', { name: 'Sign in' }).click();

@@ -7,8 +7,11 @@ import { resolve } from 'node:path';
 const port = Number(process.env.E2E_PORT ?? 4173);
 const origin = `http://localhost:${port}`;
 const dataDir = resolve(`e2e/.data/${port}`);
-rmSync(dataDir, { recursive: true, force: true });
-mkdirSync(dataDir, { recursive: true });
+// Workers load this file again while the server runs: only the runner itself starts afresh.
+if (!process.env.TEST_WORKER_INDEX) {
+	rmSync(dataDir, { recursive: true, force: true });
+	mkdirSync(dataDir, { recursive: true });
+}
 
 const chromium = process.env.CHROMIUM_PATH ?? '/usr/bin/chromium';
 if (!existsSync(chromium)) {
@@ -33,7 +36,7 @@ const env = {
 
 export default defineConfig({
 	testDir: '.',
-	outputDir: '../test-results',
+	outputDir: `../test-results/${port}`,
 	fullyParallel: false,
 	workers: 1,
 	retries: process.env.CI ? 1 : 0,

@@ -8,6 +8,8 @@ export interface NavItem {
 
 const ITEMS: NavItem[] = [
 	{ href: '/home', label: 'Home' },
+	{ href: '/mappings', label: 'Mappings' },
+	{ href: '/sessions', label: 'Sessions' },
 	{ href: '/sounds', label: 'Sounds' },
 	{ href: '/controllers', label: 'Controllers' },
 	{ href: '/classes', label: 'Classes', roles: ['teacher', 'admin'] },

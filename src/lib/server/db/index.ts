@@ -8,7 +8,8 @@ import * as schema from './schema';
 
 export function openDatabase(url = databaseUrl()) {
 	if (url.startsWith('file:')) mkdirSync(dirname(url.slice('file:'.length)), { recursive: true });
-	const client = createClient({ url, authToken: process.env.DATABASE_AUTH_TOKEN });
+	// `timeout` is the busy timeout of every pooled connection to a local file (transactions get their own).
+	const client = createClient({ url, authToken: process.env.DATABASE_AUTH_TOKEN, timeout: 5000 });
 	return { client, db: drizzle(client, { schema, casing: 'snake_case' }) };
 }
 

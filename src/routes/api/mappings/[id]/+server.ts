@@ -9,6 +9,10 @@ export const GET: RequestHandler = async ({ locals, params, url }) => {
 	try {
 		const version = url.searchParams.get('version');
 		const detail = await getMapping(db, signedIn(locals).id, params.id, version ? Number(version) : undefined);
+		if (url.searchParams.has('download')) {
+			const file = detail.name.replace(/[^\w.-]+/g, '-').replace(/^-|-$/g, '') || 'mapping';
+			return json(detail.document, { headers: { 'content-disposition': `attachment; filename="${file}.mapping.json"` } });
+		}
 		return json({ mapping: detail });
 	} catch (e) {
 		return refusalResponse(e);
