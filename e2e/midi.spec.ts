@@ -1,6 +1,7 @@
 import { expect, test, type Page } from '@playwright/test';
 import { installFakeMidi, ONE_CONTROLLER } from './fake-midi';
 import { signIn } from './support';
+import { importSessionMidi } from '../src/lib/midi/smf';
 
 // Demo two-deck mapping (src/lib/engine/demo.ts): pad-1 = note 36 = Echo A on rack 1,
 // pad-5 = note 40 = Echo B; pads 13–16 (notes 48–51) are the legato stutter row on rack 2, deck A.
@@ -120,4 +121,38 @@ test('without MIDI permission the page explains why and the on-screen pads still
 	await expect(pad(page, 'pad-1')).toHaveAttribute('data-lit', 'true');
 	await page.keyboard.up('KeyZ');
 	await expect(pad(page, 'pad-1')).toHaveAttribute('aria-pressed', 'false');
+});
+
+test('a take saves as a Standard MIDI File, a broken file is refused, and a good one plays the pads', async ({ page }) => {
+	await installFakeMidi(page, { ports: [] });
+	await openControllers(page);
+	for (let i = 0; i < 2; i++) {
+		await page.keyboard.down('KeyZ');
+		await expect(pad(page, 'pad-1')).toHaveAttribute('aria-pressed', 'true');
+		await page.keyboard.up('KeyZ');
+		await expect(pad(page, 'pad-1')).toHaveAttribute('aria-pressed', 'false');
+	}
+	const download = page.waitForEvent('download');
+	await page.getByRole('button', { name: 'Save take as MIDI' }).click();
+	const file = await (await download).path();
+	const bytes = new Uint8Array(await import('node:fs/promises').then((fs) => fs.readFile(file)));
+	const parsed = importSessionMidi(bytes);
+	if (!parsed.ok) throw new Error(parsed.error);
+	// SMF 1.0: format 1 at 480 ticks per quarter; pad-1 is note 36 in the demo profile.
+	expect(parsed).toMatchObject({ format: 1, ticksPerQuarter: 480 });
+	expect(parsed.notes.map((n) => [n.kind, n.number])).toEqual([
+		['press', 36],
+		['release', 36],
+		['press', 36],
+		['release', 36]
+	]);
+
+	const picker = page.getByTestId('midi-file-panel').locator('input[type=file]');
+	await picker.setInputFiles({ name: 'cut.mid', mimeType: 'audio/midi', buffer: Buffer.from(bytes.slice(0, bytes.length - 3)) });
+	await expect(page.getByTestId('midi-file-problem')).toContainText('truncated');
+
+	await picker.setInputFiles({ name: 'take.mid', mimeType: 'audio/midi', buffer: Buffer.from(bytes) });
+	await expect(page.getByTestId('rig-events')).toHaveText('8');
+	await expect(pad(page, 'pad-1')).toHaveAttribute('aria-pressed', 'false');
+	await expect(page.getByTestId('rack-1')).toHaveAttribute('data-audible', 'none');
 });

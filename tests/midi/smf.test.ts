@@ -2,7 +2,8 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { writeMidi } from 'midi-file';
 import { Midi } from '@tonejs/midi';
-import { exportSessionMidi, importSessionMidi, TICKS_PER_QUARTER } from '$lib/midi/smf';
+import { exportSessionFile, exportSessionMidi, importSessionFile, importSessionMidi, TICKS_PER_QUARTER } from '$lib/midi/smf';
+import { parseSession, sessionFromEvents } from '$lib/engine';
 import { GENERIC_2X8_KNOBS, GENERIC_4X4 } from '$lib/midi/profiles';
 import type { InputEvent } from '$lib/engine/types';
 
@@ -232,5 +233,34 @@ describe('cross-check with @tonejs/midi', () => {
 		expect(tn.sort(byTick)).toEqual(on.sort(byTick).map((n) => ({ ...n, ms: expect.closeTo(n.ms, 6) })));
 		// Pad notes from the profile: pad-1 = 36, pad-6 = 41, pad-16 = 51 (Generic 4×4).
 		expect(tn.map((n) => n.note)).toEqual([36, 41, 51]);
+	});
+});
+
+describe('session documents', () => {
+	it('exports a session at its own tempo and imports it back as a valid session document', () => {
+		const session = sessionFromEvents([press(0, 'pad-1'), release(468.75, 'pad-1')], 128);
+		const { bytes } = exportSessionFile(session, GENERIC_4X4);
+		// Derived: 128 BPM = 468 750 µs per quarter = 07 27 0E (REFERENCES.md).
+		expect(contains(bytes, [0xff, 0x51, 0x03, 0x07, 0x27, 0x0e])).toBe(true);
+		const back = importSessionFile(bytes, GENERIC_4X4);
+		if (!back.ok) throw new Error(back.error);
+		expect(parseSession(back.session).ok).toBe(true);
+		expect(back.session.tempo).toBeCloseTo(128, 9);
+		// MIDI 1.0: 0x90 Note On ch 1, note 36 (pad-1); the release is written as Note Off 0x80.
+		expect(back.session.events).toEqual([
+			{ t: 0, midi: [0x90, 36, 100], input: { input: 'pad-1', type: 'press' } },
+			{ t: expect.closeTo(468.75, 6), midi: [0x80, 36, 0], input: { input: 'pad-1', type: 'release' } }
+		]);
+	});
+
+	it('keeps notes the profile does not know as unmapped events with their bytes', () => {
+		const back = importSessionFile(APPENDIX_EXAMPLE, GENERIC_4X4);
+		if (!back.ok) throw new Error(back.error);
+		expect(back.unmapped).toBe(8);
+		expect(back.session.events[0]).toEqual({ t: 0, midi: [0x92, 48, 96], input: null });
+	});
+
+	it('passes a bad file on as an error value', () => {
+		expect(importSessionFile([0x4d, 0x54], GENERIC_4X4)).toEqual({ ok: false, error: expect.stringContaining('MThd') });
 	});
 });

@@ -5,11 +5,14 @@ import { applyEvent, initialRigState, type InputEvent, type Mapping, type RigCha
 import type { InputHub } from './input-hub.svelte';
 import { litInputs } from './pad-lights';
 
+const MAX_TAKE = 100_000;
+
 export class PadRig {
 	readonly mapping: Mapping;
 	state = $state.raw<RigState>() as RigState;
 	events = $state(0);
 	lastChanges = $state.raw<RigChange[]>([]);
+	#played: InputEvent[] = [];
 
 	constructor(mapping: Mapping) {
 		this.mapping = mapping;
@@ -26,6 +29,13 @@ export class PadRig {
 		this.state = result.state;
 		this.events++;
 		this.lastChanges = result.changes;
+		if (this.#played.length < MAX_TAKE) this.#played.push(event);
+	}
+
+	/** What was played since the last reset, timed from the first event (ms). */
+	take(): InputEvent[] {
+		const t0 = this.#played[0]?.t ?? 0;
+		return this.#played.map((e) => ({ ...e, t: e.t - t0 }));
 	}
 
 	/** Plays every hub event through the engine; returns the unsubscribe function. */
@@ -39,5 +49,6 @@ export class PadRig {
 		this.state = initialRigState(this.mapping);
 		this.events = 0;
 		this.lastChanges = [];
+		this.#played = [];
 	}
 }

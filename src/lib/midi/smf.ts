@@ -3,7 +3,9 @@
 // pad notes at 480 ticks per quarter. Import: formats 0 and 1 (running status included); anything
 // malformed or cut short becomes an error value with a readable reason, never a throw.
 import { parseMidi, writeMidi, type MidiData, type MidiEvent } from 'midi-file';
-import type { ControllerProfile, InputEvent } from '$lib/engine/types';
+// Relative, not $lib: Node scripts load this module without SvelteKit's aliases.
+import { sessionEvents } from '../engine/session';
+import type { ControllerProfile, InputEvent, SessionDocument } from '../engine/types';
 import { createDecoder } from './decode';
 
 export const TICKS_PER_QUARTER = 480;
@@ -245,4 +247,29 @@ export function importSessionMidi(input: ArrayLike<number> | ArrayBuffer, profil
 		unmapped,
 		warnings
 	};
+}
+
+/** A recorded session's presses as a file, at the session's tempo. */
+export function exportSessionFile(session: SessionDocument, profile: ControllerProfile): SmfExport {
+	return exportSessionMidi(sessionEvents(session).events, profile, { bpm: session.tempo, name: session.mapping });
+}
+
+export type SessionImport =
+	| { ok: true; session: SessionDocument; unmapped: number; warnings: string[] }
+	| { ok: false; error: string };
+
+/** A file as a session document: every note and CC kept with its raw bytes, decoded with the profile. */
+export function importSessionFile(input: ArrayLike<number> | ArrayBuffer, profile: ControllerProfile): SessionImport {
+	const r = importSessionMidi(input, profile);
+	if (!r.ok) return r;
+	const decode = createDecoder(profile);
+	const events = r.notes.map((n) => {
+		const status = (n.kind === 'cc' ? 0xb0 : n.kind === 'press' ? 0x90 : 0x80) | (n.channel - 1);
+		const midi = [status, n.number, n.value];
+		const d = decode(midi, n.t);
+		const input = d.status === 'event' ? { input: d.event.input, type: d.event.type, ...(d.event.value !== undefined && { value: d.event.value }) } : null;
+		return { t: n.t, midi, input };
+	});
+	const session: SessionDocument = { version: 1, tempo: r.bpm, startedAt: new Date(0).toISOString(), events };
+	return { ok: true, session, unmapped: r.unmapped, warnings: r.warnings };
 }
