@@ -1,0 +1,108 @@
+import 'fake-indexeddb/auto';
+import { ChunkQueue } from '$lib/recorder/chunk-queue';
+import { SessionRecorder } from '$lib/recorder/session-recorder.svelte';
+import { createStore } from 'idb-keyval';
+import { afterEach, describe, expect, it } from 'vitest';
+import { fakeServer } from './fake-server';
+
+let stores = 0;
+const recorders: SessionRecorder[] = [];
+afterEach(() => recorders.splice(0).forEach((r) => r.dispose()));
+
+/** A recorder as a page makes one, with its own outbox store (a reload opens the same store again). */
+function recorderFor(server: ReturnType<typeof fakeServer>, storeName: string) {
+	const recorder = new SessionRecorder({ mappingId: 'm1', tempo: () => 120, flushEveryMs: 60_000, fetch: server.fetch, store: createStore(storeName, 'outbox') });
+	recorders.push(recorder);
+	return recorder;
+}
+
+const press = (t: number, pad = 'pad-1') => ({ t, midi: [0x90, 36, 100], input: { input: pad, type: 'press' as const } });
+
+describe('ChunkQueue', () => {
+	it('keeps chunks that could not be sent and sends them in order, once, later', async () => {
+		const sent: number[] = [];
+		let up = false;
+		const queue = new ChunkQueue(async (_id, chunk) => {
+			if (!up) throw new Error('offline');
+			sent.push(chunk.seq);
+		}, createStore(`queue-test-${++stores}`, 'outbox'));
+		const rec = { sessionId: 's1', mappingId: 'm1', name: 'x', startEpoch: 0, nextSeq: 0, eventCount: 0 };
+		for (let i = 0; i < 3; i++) await queue.enqueue(rec, [{ t: i, input: null }]);
+		expect(await queue.flush('s1')).toBe(3);
+		up = true;
+		expect(await queue.flush('s1')).toBe(0);
+		expect(await queue.flush('s1')).toBe(0);
+		expect(sent).toEqual([0, 1, 2]);
+		expect(rec).toMatchObject({ nextSeq: 3, eventCount: 3 });
+	});
+});
+
+describe('SessionRecorder', () => {
+	it('records through an outage and the server ends with every event exactly once', async () => {
+		const server = fakeServer();
+		const recorder = recorderFor(server, `rec-${++stores}`);
+		await recorder.start('Outage take');
+		recorder.record(press(100));
+		await recorder.flushNow();
+		server.setOnline(false);
+		recorder.record(press(200));
+		recorder.record(press(300));
+		await recorder.flushNow();
+		expect(recorder.offline).toBe(true);
+		expect(recorder.unsent).toBe(2);
+		server.setOnline(true);
+		recorder.record(press(400));
+		const saved = await recorder.stop();
+		expect(saved).toEqual({ id: 's1', findings: 0 });
+		expect(server.events('s1').map((e) => e.t)).toEqual([100, 200, 300, 400]);
+		expect(recorder.status).toBe('saved');
+	});
+
+	it('will not finish while events wait, and says so', async () => {
+		const server = fakeServer();
+		const recorder = recorderFor(server, `rec-${++stores}`);
+		await recorder.start();
+		recorder.record(press(50));
+		server.setOnline(false);
+		expect(await recorder.stop()).toBeNull();
+		expect(recorder.status).toBe('recording');
+		expect(recorder.error).toMatch(/still waiting for the server/);
+		server.setOnline(true);
+		expect(await recorder.stop()).toEqual({ id: 's1', findings: 0 });
+		expect(server.events('s1')).toHaveLength(1);
+	});
+
+	it('resumes after a reload and delivers what the old page kept, without doubles', async () => {
+		const server = fakeServer();
+		const storeName = `rec-${++stores}`;
+		const first = recorderFor(server, storeName);
+		await first.start();
+		first.record(press(10));
+		await first.flushNow(); // delivered
+		server.setOnline(false);
+		first.record(press(20));
+		await first.flushNow(); // kept in IndexedDB only
+		first.dispose(); // the tab reloads
+
+		server.setOnline(true);
+		const second = recorderFor(server, storeName);
+		expect(await second.resume()).toBe(true);
+		expect(second.sessionId).toBe('s1');
+		second.record(press(30));
+		await second.stop();
+		expect(server.events('s1').map((e) => e.t)).toEqual([10, 20, 30]);
+		expect(await recorderFor(server, storeName).resume()).toBe(false);
+	});
+
+	it('sends a chunk the server already holds again without storing it twice', async () => {
+		const server = fakeServer();
+		const recorder = recorderFor(server, `rec-${++stores}`);
+		await recorder.start();
+		await server.fetch('/api/sessions/s1/chunks', { method: 'POST', body: JSON.stringify({ seq: 0, events: [press(5)] }) });
+		recorder.record(press(5));
+		await recorder.stop();
+		expect(server.events('s1')).toHaveLength(1);
+		expect(server.posts).toBe(2);
+	});
+});
+
