@@ -33,11 +33,12 @@ export function installSoundsHook(target: { padproofSounds?: SoundsHook }): void
 			const started = performance.now();
 			const { renderRig } = await import('./render');
 			const rendered = await renderRig(spec);
+			const renderMs = performance.now() - started;
 			return {
 				sampleRate: rendered.sampleRate,
 				lookAhead: rendered.lookAhead,
 				channels: rendered.channels.map(floatsToBase64),
-				renderMs: performance.now() - started
+				renderMs
 			};
 		}
 	};

@@ -1,4 +1,4 @@
-import { Filter, WaveShaper, connect } from 'tone';
+import { WaveShaper, connect } from 'tone';
 import { CRUSHER, crusherReady } from './crusher-worklet';
 import { RackEffect, rampParam, type EffectOptions } from './effect';
 
@@ -9,7 +9,7 @@ import { RackEffect, rampParam, type EffectOptions } from './effect';
 export class Bitcrush extends RackEffect {
 	readonly id = 'bitcrush';
 	readonly blend = 'replace';
-	#tone = this.own(new Filter({ type: 'lowpass', rolloff: -12, Q: 0.5 }));
+	#tone = this.biquad('lowpass', 12000, 0.5);
 	#worklet: AudioWorkletNode | null = null;
 	#fallback: WaveShaper | null = null;
 
@@ -26,9 +26,10 @@ export class Bitcrush extends RackEffect {
 			connect(this.#worklet, this.#tone);
 		} else {
 			this.#fallback = this.own(new WaveShaper(steps(8), 4096));
-			this.input.chain(this.#fallback, this.#tone);
+			this.input.chain(this.#fallback);
+			connect(this.#fallback, this.#tone);
 		}
-		this.#tone.connect(this.output);
+		connect(this.#tone, this.output);
 		this.init();
 	}
 

@@ -1,4 +1,4 @@
-import { Delay, Filter, Gain } from 'tone';
+import { Delay, Gain, connectSeries } from 'tone';
 import { RackEffect, cycleLag, rampParam, type EffectOptions } from './effect';
 
 const GLIDE = 0.02; // seconds; a tempo change slides the delay instead of jumping (no click)
@@ -9,7 +9,7 @@ export class Echo extends RackEffect {
 	readonly blend = 'add';
 	#lag = this.own(new Delay({ maxDelay: 0.01 }));
 	#delay = this.own(new Delay({ maxDelay: 4 }));
-	#tone = this.own(new Filter({ type: 'lowpass', rolloff: -12, Q: 0.5 }));
+	#tone = this.biquad('lowpass', 8000, 0.5);
 	#feedback = this.own(new Gain(0));
 
 	constructor(options: EffectOptions) {
@@ -17,7 +17,7 @@ export class Echo extends RackEffect {
 		this.#lag.delayTime.value = cycleLag(this.input.context.sampleRate);
 		this.input.chain(this.#lag, this.#delay);
 		this.#delay.connect(this.output);
-		this.#delay.chain(this.#tone, this.#feedback, this.#delay);
+		connectSeries(this.#delay, this.#tone, this.#feedback, this.#delay);
 		this.init();
 	}
 

@@ -1,4 +1,4 @@
-import { Filter, Gain, WaveShaper } from 'tone';
+import { Gain, WaveShaper, connectSeries } from 'tone';
 import { RackEffect, rampParam, scaleParam, spec, type EffectOptions } from './effect';
 
 const OPEN_LOW = 20;
@@ -12,17 +12,19 @@ const FADE = 0.005;
 export class FilterSweep extends RackEffect {
 	readonly id = 'filter';
 	readonly blend = 'replace';
-	#lowpass = this.own(new Filter({ type: 'lowpass', rolloff: -24, frequency: OPEN_HIGH }));
-	#highpass = this.own(new Filter({ type: 'highpass', rolloff: -24, frequency: OPEN_LOW }));
+	#lowpass = [this.biquad('lowpass', OPEN_HIGH), this.biquad('lowpass', OPEN_HIGH)];
+	#highpass = [this.biquad('highpass', OPEN_LOW), this.biquad('highpass', OPEN_LOW)];
 	#clean = this.own(new Gain(1));
 	#dirty = this.own(new Gain(0));
 	#shaper = this.own(new WaveShaper((x) => Math.tanh(3 * x) / Math.tanh(3), 2048));
 
 	constructor(options: EffectOptions) {
 		super(options);
-		this.input.chain(this.#lowpass, this.#highpass);
-		this.#highpass.chain(this.#clean, this.output);
-		this.#highpass.chain(this.#shaper, this.#dirty, this.output);
+		// Two biquads a side: 24 dB per octave, a sweep you can hear.
+		const last = this.#highpass[1];
+		connectSeries(this.input, ...this.#lowpass, ...this.#highpass);
+		connectSeries(last, this.#clean, this.output);
+		connectSeries(last, this.#shaper, this.#dirty, this.output);
 		this.init();
 	}
 
@@ -37,10 +39,11 @@ export class FilterSweep extends RackEffect {
 	#sweep(time: number) {
 		const { lowpass, highpass } = cutoffs(this.values.cutoff ?? 0.5);
 		const q = this.values.resonance === undefined ? 0.707 : this.scaled('resonance');
-		rampParam(this.#lowpass.frequency, lowpass, time, FADE);
-		rampParam(this.#highpass.frequency, highpass, time, FADE);
-		rampParam(this.#lowpass.Q, lowpass < OPEN_HIGH ? q : 0.707, time, FADE);
-		rampParam(this.#highpass.Q, highpass > OPEN_LOW ? q : 0.707, time, FADE);
+		// The resonance goes on the second biquad of the closing side only.
+		for (const f of this.#lowpass) rampParam(f.frequency, lowpass, time, FADE);
+		for (const f of this.#highpass) rampParam(f.frequency, highpass, time, FADE);
+		rampParam(this.#lowpass[1].Q, lowpass < OPEN_HIGH ? q : 0.707, time, FADE);
+		rampParam(this.#highpass[1].Q, highpass > OPEN_LOW ? q : 0.707, time, FADE);
 	}
 }
 

@@ -1,29 +1,39 @@
-import { Filter, Gain, LFO } from 'tone';
+import { Gain, LFO, connect, connectSeries } from 'tone';
 import { RackEffect, rampParam, type EffectOptions } from './effect';
 
-const MAX_STAGES = 12;
+const MAX_BIQUADS = 6; // a biquad all-pass is two classic first-order stages: 2–12 stages
 const CENTRE = 900; // Hz
 
 /**
  * Phaser: the input plus a copy through 2–12 all-pass stages whose corner sweeps with a
- * tempo-synced LFO. All twelve stages run; `stages` picks which tap (an even count) is heard.
+ * tempo-synced LFO. All six biquads run; `stages` picks which tap (an even count) is heard.
+ * The swept path runs in mono: the sweep costs a coefficient update per sample and stage.
  */
 export class Phaser extends RackEffect {
 	readonly id = 'phaser';
 	readonly blend = 'replace';
 	#dry = this.own(new Gain(0.5));
-	#stages = Array.from({ length: MAX_STAGES }, () => this.own(new Filter({ type: 'allpass', rolloff: -12, Q: 0.6 })));
-	#taps = Array.from({ length: MAX_STAGES / 2 }, () => this.own(new Gain(0)));
+	#mono = this.own(new Gain(1));
+	#stages = Array.from({ length: MAX_BIQUADS }, () => this.#stage());
+	#taps = Array.from({ length: MAX_BIQUADS }, () => this.own(new Gain(0)));
 	#sweep = this.own(new LFO({ frequency: 1, min: CENTRE / 2, max: CENTRE * 2 }));
 
 	constructor(options: EffectOptions) {
 		super(options);
 		this.input.chain(this.#dry, this.output);
-		this.input.chain(...this.#stages);
-		this.#taps.forEach((tap, k) => this.#stages[2 * k + 1].chain(tap, this.output));
-		for (const stage of this.#stages) this.#sweep.connect(stage.frequency);
+		this.#mono.channelCount = 1;
+		this.#mono.channelCountMode = 'explicit';
+		connectSeries(this.input, this.#mono, ...this.#stages);
+		this.#taps.forEach((tap, k) => connectSeries(this.#stages[k], tap, this.output));
+		for (const stage of this.#stages) connect(this.#sweep, stage.frequency);
 		this.#sweep.start(0);
 		this.init();
+	}
+
+	#stage(): BiquadFilterNode {
+		const stage = this.biquad('allpass', CENTRE, 0.6);
+		stage.frequency.value = 0; // the LFO supplies the whole corner frequency
+		return stage;
 	}
 
 	protected apply(param: string, value: number, time: number) {

@@ -1,4 +1,4 @@
-import { Convolver, Delay, Filter, Gain, ToneAudioBuffer } from 'tone';
+import { Convolver, Delay, Gain, ToneAudioBuffer, connect, connectSeries } from 'tone';
 import { seededNoise } from '../measure';
 import { RackEffect, rampParam, type EffectOptions } from './effect';
 
@@ -13,7 +13,7 @@ export class Reverb extends RackEffect {
 	readonly id = 'reverb';
 	readonly blend = 'add';
 	#predelay = this.own(new Delay({ maxDelay: 0.1 }));
-	#damping = this.own(new Filter({ type: 'lowpass', rolloff: -12, Q: 0.5 }));
+	#damping = this.biquad('lowpass', 6000, 0.5);
 	#rooms = [0, 1].map(() => ({
 		convolver: this.own(new Convolver({ normalize: false })),
 		level: this.own(new Gain(0))
@@ -24,9 +24,9 @@ export class Reverb extends RackEffect {
 
 	constructor(options: EffectOptions) {
 		super(options);
-		this.input.chain(this.#predelay, this.#damping);
+		connectSeries(this.input, this.#predelay, this.#damping);
 		for (const room of this.#rooms) {
-			this.#damping.connect(room.convolver);
+			connect(this.#damping, room.convolver);
 			room.convolver.chain(room.level, this.output);
 		}
 		this.init();

@@ -1,4 +1,4 @@
-import { Delay, Filter, Gain, Oscillator, WaveShaper } from 'tone';
+import { Delay, Gain, Oscillator, WaveShaper, connectSeries } from 'tone';
 import { RackEffect, cycleLag, rampParam, type EffectOptions } from './effect';
 
 const WOW_HZ = 0.6;
@@ -9,8 +9,8 @@ export class TapeEcho extends RackEffect {
 	readonly blend = 'add';
 	#lag = this.own(new Delay({ maxDelay: 0.01 }));
 	#delay = this.own(new Delay({ maxDelay: 4 }));
-	#head = this.own(new Filter({ type: 'lowpass', rolloff: -12, Q: 0.5 }));
-	#loss = this.own(new Filter({ type: 'lowpass', rolloff: -12, Q: 0.5 }));
+	#head = this.biquad('lowpass', 12000, 0.5);
+	#loss = this.biquad('lowpass', 6000, 0.5);
 	#saturate = this.own(new WaveShaper((x) => Math.tanh(1.5 * x) / Math.tanh(1.5), 1024));
 	#feedback = this.own(new Gain(0));
 	#wow = this.own(new Oscillator({ frequency: WOW_HZ, type: 'sine' }));
@@ -19,8 +19,8 @@ export class TapeEcho extends RackEffect {
 	constructor(options: EffectOptions) {
 		super(options);
 		this.#lag.delayTime.value = cycleLag(this.input.context.sampleRate);
-		this.input.chain(this.#head, this.#lag, this.#delay, this.output);
-		this.#delay.chain(this.#loss, this.#saturate, this.#feedback, this.#delay);
+		connectSeries(this.input, this.#head, this.#lag, this.#delay, this.output);
+		connectSeries(this.#delay, this.#loss, this.#saturate, this.#feedback, this.#delay);
 		this.#wow.chain(this.#wowDepth, this.#delay.delayTime);
 		this.#wow.start(0);
 		this.init();

@@ -26,7 +26,20 @@ export function loopFrames(loop: DemoLoop, bpm: number, rate: number): number {
 	return Math.round(loop.bars * 16 * stepSeconds(bpm) * rate);
 }
 
+const mixes = new Map<string, [Float32Array, Float32Array]>();
+
+/** The loop mixed at `bpm`, kept for the next deck or render that asks for the same. */
 export function renderLoop(loop: DemoLoop, bpm: number, rate: number): [Float32Array, Float32Array] {
+	const key = `${loop.id}@${bpm}@${rate}`;
+	let mix = mixes.get(key);
+	if (!mix) {
+		if (mixes.size > 32) mixes.clear();
+		mixes.set(key, (mix = mixLoop(loop, bpm, rate)));
+	}
+	return mix;
+}
+
+function mixLoop(loop: DemoLoop, bpm: number, rate: number): [Float32Array, Float32Array] {
 	const frames = loopFrames(loop, bpm, rate);
 	const left = new Float32Array(frames);
 	const right = new Float32Array(frames);
