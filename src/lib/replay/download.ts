@@ -1,0 +1,15 @@
+// Saves bytes made in the browser (a MIDI file, a WAV render) as a download.
+
+export function saveBytes(bytes: Uint8Array, name: string, type: string): void {
+	const url = URL.createObjectURL(new Blob([bytes as BlobPart], { type }));
+	const link = Object.assign(document.createElement('a'), { href: url, download: name });
+	document.body.append(link);
+	link.click();
+	link.remove();
+	setTimeout(() => URL.revokeObjectURL(url), 10_000);
+}
+
+/** A file name from a session name: letters, digits, dots and dashes only. */
+export function fileStem(name: string): string {
+	return name.replace(/[^\w.-]+/g, '-').replace(/^-+|-+$/g, '') || 'session';
+}
