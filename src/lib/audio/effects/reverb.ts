@@ -1,18 +1,22 @@
-import { Convolver, Delay, Gain, ToneAudioBuffer, connect, connectSeries } from 'tone';
+import { Convolver, Delay, Gain, Merge, ToneAudioBuffer, connect, connectSeries } from 'tone';
 import { seededNoise } from '../measure';
 import { RackEffect, rampParam, type EffectOptions } from './effect';
 
 const SWAP = 0.04; // seconds of crossfade when size or decay makes a new impulse response
 
 /**
- * Convolution reverb over a generated impulse response: decorrelated noise per side with an
- * exponential decay to −60 dB at the decay time. Size scales the decay and the pre-delay.
- * A new response is swapped in with a short crossfade between two convolvers.
+ * Convolution reverb over a generated impulse response: noise with an exponential decay to
+ * −60 dB at the decay time. Size scales the decay and the pre-delay. A new response is swapped in
+ * with a short crossfade between two convolvers. The tail is convolved once, in mono (half the
+ * cost of a stereo pair offline), and spread by giving the right side a few ms more delay.
  */
 export class Reverb extends RackEffect {
 	readonly id = 'reverb';
 	readonly blend = 'add';
+	#mono = this.own(new Gain(1));
 	#predelay = this.own(new Delay({ maxDelay: 0.1 }));
+	#spread = this.own(new Delay({ delayTime: 0.013, maxDelay: 0.02 }));
+	#sides = this.own(new Merge());
 	#damping = this.biquad('lowpass', 6000, 0.5);
 	#rooms = [0, 1].map(() => ({
 		convolver: this.own(new Convolver({ normalize: false })),
@@ -24,11 +28,17 @@ export class Reverb extends RackEffect {
 
 	constructor(options: EffectOptions) {
 		super(options);
-		connectSeries(this.input, this.#predelay, this.#damping);
+		this.#mono.channelCount = 1;
+		this.#mono.channelCountMode = 'explicit';
+		connectSeries(this.input, this.#mono, this.#predelay, this.#damping);
 		for (const room of this.#rooms) {
 			connect(this.#damping, room.convolver);
-			room.convolver.chain(room.level, this.output);
+			room.convolver.connect(room.level);
+			room.level.connect(this.#sides, 0, 0);
+			room.level.chain(this.#spread);
 		}
+		this.#spread.connect(this.#sides, 0, 1);
+		this.#sides.connect(this.output);
 		this.init();
 	}
 
@@ -57,13 +67,13 @@ export class Reverb extends RackEffect {
 	}
 }
 
-/** A stereo impulse response whose energy is about −8 dB, so the tail sits under the dry signal. */
+/** A mono impulse response whose energy is about −8 dB, so the tail sits under the dry signal. */
 function impulse(context: BaseAudioContextLike, seconds: number, seed: number): AudioBuffer {
 	const rate = context.sampleRate;
 	const length = Math.max(1, Math.round(seconds * rate));
-	const buffer = context.createBuffer(2, length, rate) as AudioBuffer;
-	for (let c = 0; c < 2; c++) {
-		const data = seededNoise(length, seed * 2 + c);
+	const buffer = context.createBuffer(1, length, rate) as AudioBuffer;
+	for (let c = 0; c < 1; c++) {
+		const data = seededNoise(length, seed);
 		let energy = 0;
 		for (let i = 0; i < length; i++) {
 			data[i] *= Math.exp((-6.91 * i) / length);
