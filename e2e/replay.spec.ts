@@ -119,6 +119,22 @@ test('a link with ?t opens the replay with the cursor and the rig at that moment
 	await page.locator('body').press('ArrowLeft');
 	await expect(page.getByTestId('cursor-time')).toHaveText('1.000 s');
 	await expect(page.getByTestId('rig-held')).toHaveText('Pad 13');
+
+	// A click on the plot puts the cursor under the pointer (to the nearest pixel).
+	const svg = page.getByTestId('timeline-plot').locator('svg');
+	const [start, end, left, width] = await Promise.all(
+		['data-view-start', 'data-view-end', 'data-plot-left', 'data-plot-width'].map(async (a) => Number(await svg.getAttribute(a)))
+	);
+	const msPerPx = (end - start) / width;
+	await svg.click({ position: { x: left + (1800 - start) / msPerPx, y: 120 } });
+	const clicked = Number(await page.getByTestId('plot-cursor').getAttribute('data-t'));
+	expect(Math.abs(clicked - 1800)).toBeLessThanOrEqual(msPerPx);
+	await expect(page.getByTestId('rig-held')).toHaveText('Pad 14');
+
+	await page.locator('body').press(' ');
+	await expect(page.getByTestId('play')).toHaveAttribute('aria-pressed', 'true');
+	await page.locator('body').press(' ');
+	await expect(page.getByTestId('play')).toHaveAttribute('aria-pressed', 'false');
 });
 
 test('the session downloads as JSON and as a Standard MIDI File', async ({ page, baseURL }) => {
