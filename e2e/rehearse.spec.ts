@@ -146,3 +146,42 @@ test('the mapping check lists the broken row’s lint findings', async ({ page }
 	await lint.locator('summary').click();
 	await expect(lint.getByTestId('lint-finding').filter({ hasText: 'legato-without-counter' })).not.toHaveCount(0);
 });
+
+test('record, play, stop: the saved session keeps the MIDI bytes and links to its replay', async ({ page }) => {
+	const midi = await installFakeMidi(page, { ports: ONE_CONTROLLER });
+	await openRoom(page, 'Broken stutter row');
+	await page.getByTestId('count-in-toggle').uncheck();
+	await page.getByTestId('record-name').fill('Chord drill');
+	await page.getByTestId('record-start').click();
+	await expect(page.getByTestId('recorder')).toHaveAttribute('data-status', 'recording');
+
+	await midi.send('pads-in', [NOTE_ON, 48, 100]);
+	await midi.send('pads-in', [NOTE_ON, 49, 100]);
+	await midi.send('pads-in', [NOTE_OFF, 48, 0]);
+	await midi.send('pads-in', [NOTE_OFF, 49, 0]);
+	await page.keyboard.down('KeyZ');
+	await page.keyboard.up('KeyZ');
+	await expect(page.getByTestId('record-events')).toHaveText('6');
+
+	await page.getByTestId('record-stop').click();
+	await expect(page.getByTestId('record-saved')).toContainText('1 finding');
+	const link = page.getByTestId('record-replay-link');
+	const href = await link.getAttribute('href');
+	expect(href).toMatch(/^\/sessions\/[\w-]+$/);
+
+	const response = await page.request.get(`/api${href}`);
+	expect(response.ok()).toBe(true);
+	const session = (await response.json()) as { events: { t: number; midi?: number[]; input: { input: string; type: string } | null }[] };
+	// Controller events keep their bytes beside the resolved press or release; the keyboard's have none.
+	expect(session.events.map((e) => [e.midi ?? null, e.input?.input, e.input?.type])).toEqual([
+		[[NOTE_ON, 48, 100], 'pad-13', 'press'],
+		[[NOTE_ON, 49, 100], 'pad-14', 'press'],
+		[[NOTE_OFF, 48, 0], 'pad-13', 'release'],
+		[[NOTE_OFF, 49, 0], 'pad-14', 'release'],
+		[null, 'pad-1', 'press'],
+		[null, 'pad-1', 'release']
+	]);
+	const times = session.events.map((e) => e.t);
+	expect(times).toEqual([...times].sort((a, b) => a - b));
+	await expect(page.getByTestId('record-saved')).toContainText('Chord drill');
+});

@@ -126,7 +126,12 @@ export class RehearsalRoom {
 	}
 
 	startSound(): Promise<void> {
-		return this.sound.start(this.state);
+		return this.sound.start(this.state, () => {
+			const now = this.roomNow();
+			this.clock.origin = now;
+			this.#actor?.send({ type: 'tempo', bpm: this.clock.tempo, origin: now });
+			return now;
+		});
 	}
 
 	/** Starts recording, after a one-bar count-in when that is on. */

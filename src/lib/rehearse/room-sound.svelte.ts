@@ -51,18 +51,24 @@ export class RoomSound {
 		return this.status === 'running';
 	}
 
-	/** Must run inside a user gesture. `state`: the rig as it stands, so sound joins mid-session. */
-	async start(state: RigState): Promise<void> {
+	/**
+	 * Must run inside a user gesture. `state`: the rig as it stands, so sound joins mid-session.
+	 * `beginBeat` restarts the room's beat clock at this moment and returns the room time it did:
+	 * the loops' beat 0 is then the same instant on the audio clock.
+	 */
+	async start(state: RigState, beginBeat: () => number): Promise<void> {
 		if (this.status !== 'idle') return;
 		this.status = 'starting';
 		try {
 			const [tone, { AudioRig }] = await Promise.all([import('tone'), import('$lib/audio/rig')]);
 			await tone.start();
 			const ctx = tone.getContext();
-			// Room ms 0 in context seconds; the loops' beat 0 sits at the room clock's origin.
-			const origin = ctx.currentTime - this.#roomNow() / 1000;
-			this.#rig = await AudioRig.create({ tempo: this.#clock.tempo, origin: origin + this.#clock.origin / 1000, state });
-			this.#rig.origin = origin;
+			const now = ctx.currentTime;
+			const roomTime = beginBeat();
+			this.#rig = await AudioRig.create({ tempo: this.#clock.tempo, origin: now, state });
+			// Session time 0 (room ms 0) on the audio clock: pad changes at room time t sound at
+			// origin + t/1000 + the look-ahead.
+			this.#rig.origin = now - roomTime / 1000;
 			this.#rig.master.setLevel(this.masterDb, ctx.currentTime);
 			this.#rig.master.output.toDestination();
 			this.#click = new tone.Synth({ oscillator: { type: 'sine' }, envelope: { attack: 0.001, decay: 0.04, sustain: 0, release: 0.01 }, volume: -10 }).connect(this.#rig.master.input);
