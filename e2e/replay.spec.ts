@@ -70,6 +70,14 @@ test('the replay places the dropout at the injected release and the jump highlig
 	await expect(mark).toHaveCount(1);
 	expect(Math.abs(Number(await mark.getAttribute('data-start')) - RELEASE_13)).toBeLessThanOrEqual(1);
 
+	// The mark on the plot selects its finding; so does the list item.
+	await mark.click();
+	await expect(findings.first()).toHaveAttribute('aria-pressed', 'true');
+	await expect(page.getByTestId('cursor-time')).toHaveText('1.500 s');
+	await page.getByTestId('zoom-fit').click();
+	await page.getByTestId('step-back').click();
+	await expect(page.getByTestId('cursor-time')).toHaveText('1.200 s');
+
 	await findings.first().click();
 	await expect(page.getByTestId('cursor-time')).toHaveText('1.500 s');
 	const causing = page.getByTestId('causing-event');
@@ -170,4 +178,10 @@ test('a session whose mapping was deleted still shows its events and replays aga
 	await page.getByTestId('against-replay').click();
 	await expect(page).toHaveURL(new RegExp(`against=${broken}`));
 	await expect(page.getByTestId('findings-against').getByTestId('finding')).toHaveCount(1);
+});
+
+test('an unknown session says so in plain words', async ({ page }) => {
+	const response = await page.goto('/sessions/no-such-session');
+	expect(response?.status()).toBe(404);
+	await expect(page.getByText('That session does not exist, or it belongs to someone else.')).toBeVisible();
 });
