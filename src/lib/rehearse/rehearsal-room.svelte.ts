@@ -16,12 +16,18 @@ import { clampTempo, TapTempo } from './tap-tempo';
 
 export const COUNT_IN_BEATS = 4;
 
+/** What the room uses of the session recorder (SessionRecorder fits it; tests pass a stand-in). */
+export type RoomRecorder = Pick<
+	SessionRecorder,
+	'status' | 'name' | 'eventCount' | 'unsent' | 'offline' | 'error' | 'uploadProgress' | 'elapsed' | 'start' | 'record' | 'stop' | 'resume' | 'attachAudio' | 'dispose'
+>;
+
 export interface RoomOptions {
 	mappingId: string;
 	mapping: Mapping;
 	/** The performance clock (ms); MIDI, pointer and key timestamps are on it. */
 	now?: () => number;
-	recorder?: SessionRecorder;
+	recorder?: RoomRecorder;
 	controllers?: ControllerRig;
 }
 
@@ -30,7 +36,7 @@ type Recordable = { midi?: number[]; input: SessionEvent['input']; t: number };
 export class RehearsalRoom {
 	readonly mapping: Mapping;
 	readonly controllers: ControllerRig;
-	readonly recorder: SessionRecorder;
+	readonly recorder: RoomRecorder;
 	readonly findings: LiveFindings;
 	readonly clock: RoomClock;
 	readonly sound: RoomSound;
@@ -186,7 +192,7 @@ export class RehearsalRoom {
 		this.#lastT = t;
 		const event: InputEvent = e.value === undefined ? { t, input: e.input, type: e.type } : { t, input: e.input, type: e.type, value: e.value };
 		const input = e.value === undefined ? { input: e.input, type: e.type } : { input: e.input, type: e.type, value: e.value };
-		const recordable: Recordable = { input, t: this.recorder.at(e.t) };
+		const recordable: Recordable = { input, t: this.#recorderTime(e.t) };
 		if (e.source.startsWith('midi:')) {
 			// The bytes arrive in the decoded callback right after this; a release without a message
 			// (a device unplugged mid-hold) is recorded on its own.
@@ -203,7 +209,12 @@ export class RehearsalRoom {
 		const pending = this.#midiEvent;
 		this.#midiEvent = null;
 		// A message the hub didn't turn into an event (unmapped, or a pad already held elsewhere).
-		this.#record({ midi: decoded.message.bytes, input: pending?.input ?? null, t: pending?.t ?? this.recorder.at(t) });
+		this.#record({ midi: decoded.message.bytes, input: pending?.input ?? null, t: pending?.t ?? this.#recorderTime(t) });
+	}
+
+	/** A performance-clock time (a MIDI, pointer or key timestamp) on the recording's clock. */
+	#recorderTime(perfTime: number): number {
+		return Math.max(0, this.recorder.elapsed() - (this.#now() - perfTime));
 	}
 
 	#flushMidi(): void {

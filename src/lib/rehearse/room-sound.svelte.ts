@@ -160,7 +160,7 @@ export class RoomSound {
 
 	dispose(): void {
 		clearInterval(this.#ticker);
-		cancelAnimationFrame(this.#frame);
+		if (this.#frame) cancelAnimationFrame(this.#frame);
 		this.#click?.dispose();
 		this.#capture?.disconnect();
 		this.#rig?.dispose();
