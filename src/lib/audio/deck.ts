@@ -1,5 +1,6 @@
 // One deck: its source (a demo loop, or a test signal), play/stop, the four rack inserts in
 // series, and its level. Stopping ramps the source down before the inserts, so tails ring out.
+// Neighbouring inserts share one summing node: every node in the chain runs on every frame.
 import { Gain, ToneAudioBuffer, ToneBufferSource } from 'tone';
 import { RACK_COUNT, type DeckId } from '$lib/engine/types';
 import type { BeatClock } from './beat-clock';
@@ -12,8 +13,8 @@ import { RACK_FADE, RackInsert } from './rack-insert';
 export class DeckChannel {
 	readonly output = new Gain(1);
 	readonly inserts: RackInsert[];
-	#source = new Gain(1);
-	#play = new Gain(1);
+	#play = new Gain(1); // sources sum here
+	#joints = Array.from({ length: RACK_COUNT - 1 }, () => new Gain(1));
 	#loop: LoopPlayer | null = null;
 	#retired: LoopPlayer[] = [];
 	#probes: ToneBufferSource[] = [];
@@ -24,9 +25,8 @@ export class DeckChannel {
 		readonly clock: BeatClock
 	) {
 		const bpm = clock.bpmAt(clock.origin);
-		this.inserts = Array.from({ length: RACK_COUNT }, (_, i) => new RackInsert(i + 1, deck, bpm));
-		this.#source.chain(this.#play, this.inserts[0].input);
-		this.inserts.forEach((r, i) => r.output.connect(this.inserts[i + 1]?.input ?? this.output));
+		const joints = [this.#play, ...this.#joints, this.output];
+		this.inserts = Array.from({ length: RACK_COUNT }, (_, i) => new RackInsert(i + 1, deck, bpm, joints[i], joints[i + 1]));
 	}
 
 	get loop(): DemoLoop | null {
@@ -48,7 +48,7 @@ export class DeckChannel {
 		}
 		this.#loop = loop ? new LoopPlayer(loop, this.clock) : null;
 		if (this.#loop) {
-			this.#loop.output.connect(this.#source);
+			this.#loop.output.connect(this.#play);
 			this.#loop.start(time);
 		}
 	}
@@ -56,7 +56,7 @@ export class DeckChannel {
 	/** Plays fixed samples once from `time` (test signals on the sounds page and in tests). */
 	playSamples(channels: Float32Array[], time: number): void {
 		const probe = new ToneBufferSource({ url: ToneAudioBuffer.fromArray(channels) });
-		probe.connect(this.#source);
+		probe.connect(this.#play);
 		probe.onended = () => probe.dispose();
 		probe.start(time);
 		this.#probes.push(probe);
@@ -83,6 +83,6 @@ export class DeckChannel {
 		for (const l of this.#retired) l.dispose();
 		for (const p of this.#probes) p.dispose();
 		for (const r of this.inserts) r.dispose();
-		for (const n of [this.output, this.#source, this.#play]) n.dispose();
+		for (const n of [this.output, this.#play, ...this.#joints]) n.dispose();
 	}
 }

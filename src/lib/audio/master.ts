@@ -12,17 +12,17 @@ const KNEE_DB = -3;
 const RANGE = 16; // the shaper's input covers ±16 (+24 dBFS) before it clamps
 
 export class MasterBus {
-	readonly input = new Gain(1);
+	/** The level, with the shaper's input scale folded in (one node fewer on every frame). */
+	readonly input = new Gain(dbToGain(DEFAULT_MASTER_DB) / RANGE);
 	readonly output = new Gain(1);
-	#level = new Gain(dbToGain(DEFAULT_MASTER_DB));
-	#scale = new Gain(1 / RANGE);
 	#ceiling = new WaveShaper(ceilingCurve(8193), 8193);
-	#meter = new Meter({ smoothing: 0.7 });
+	// Only a live context is metered: an analyser runs on every frame even with nothing reading it.
+	#meter = this.output.context.isOffline ? null : new Meter({ smoothing: 0.7 });
 	#levelDb = DEFAULT_MASTER_DB;
 
 	constructor() {
-		this.input.chain(this.#level, this.#scale, this.#ceiling, this.output);
-		this.output.connect(this.#meter);
+		this.input.chain(this.#ceiling, this.output);
+		if (this.#meter) this.output.connect(this.#meter);
 	}
 
 	get levelDb(): number {
@@ -31,19 +31,17 @@ export class MasterBus {
 
 	setLevel(db: number, time: number): void {
 		this.#levelDb = db;
-		rampParam(this.#level.gain, db <= -60 ? 0 : dbToGain(db), time, 0.02);
+		rampParam(this.input.gain, db <= -60 ? 0 : dbToGain(db) / RANGE, time, 0.02);
 	}
 
-	/** Output level in dBFS as the meter reads it now (−Infinity when silent). */
+	/** Output level in dBFS as the meter reads it now (−Infinity when silent or offline). */
 	meterDb(): number {
-		const v: number | number[] = this.#meter.getValue();
+		const v: number | number[] = this.#meter?.getValue() ?? -Infinity;
 		return Array.isArray(v) ? Math.max(...v) : v;
 	}
 
 	dispose(): void {
-		for (const n of [this.input, this.output, this.#level, this.#scale, this.#ceiling, this.#meter]) {
-			n.dispose();
-		}
+		for (const n of [this.input, this.output, this.#ceiling, this.#meter]) n?.dispose();
 	}
 }
 

@@ -14,18 +14,19 @@ export const RACK_FADE = 0.003;
 interface Loaded {
 	id: EffectId;
 	effect: RackEffect;
-	wet: Gain;
 	engaged: boolean;
 }
 
+/** One slot between two summing nodes it shares with its neighbours; the effect's output level is its wet. */
 class SlotStage {
-	readonly input = new Gain(1);
-	readonly output = new Gain(1);
 	#bypass = new Gain(1);
 	loaded: Loaded | null = null;
 	#retired: (Loaded & { until: number })[] = [];
 
-	constructor() {
+	constructor(
+		readonly input: Gain,
+		readonly output: Gain
+	) {
 		this.input.chain(this.#bypass, this.output);
 	}
 
@@ -33,24 +34,24 @@ class SlotStage {
 		if (this.loaded?.id === id) return;
 		this.#sweep();
 		if (this.loaded) {
-			rampParam(this.loaded.wet.gain, 0, time, RACK_FADE);
+			rampParam(this.loaded.effect.output.gain, 0, time, RACK_FADE);
 			if (this.loaded.engaged) this.loaded.effect.release(time + RACK_FADE);
 			this.#retired.push({ ...this.loaded, until: time + 0.5 });
 			this.loaded = null;
 		}
 		if (id === null) return;
 		const effect = createEffect(id, { bpm });
-		const wet = new Gain(0);
+		effect.output.gain.setValueAtTime(0, 0); // silent until the slot engages (a past time: at once)
 		this.input.connect(effect.input);
-		effect.output.chain(wet, this.output);
-		this.loaded = { id, effect, wet, engaged: false };
+		effect.output.connect(this.output);
+		this.loaded = { id, effect, engaged: false };
 	}
 
 	follow(active: boolean, bypass: number, time: number) {
 		rampParam(this.#bypass.gain, bypass, time, RACK_FADE);
 		const loaded = this.loaded;
 		if (!loaded) return;
-		rampParam(loaded.wet.gain, active ? 1 : 0, time, RACK_FADE);
+		rampParam(loaded.effect.output.gain, active ? 1 : 0, time, RACK_FADE);
 		if (active && !loaded.engaged) loaded.effect.engage(time);
 		if (!active && loaded.engaged) loaded.effect.release(time + RACK_FADE);
 		loaded.engaged = active;
@@ -62,29 +63,23 @@ class SlotStage {
 		this.#retired = this.#retired.filter((l) => {
 			if (l.until > now) return true;
 			l.effect.dispose();
-			l.wet.dispose();
 			return false;
 		});
 	}
 
 	dispose() {
-		for (const l of [...this.#retired, ...(this.loaded ? [this.loaded] : [])]) {
-			l.effect.dispose();
-			l.wet.dispose();
-		}
+		for (const l of [...this.#retired, ...(this.loaded ? [this.loaded] : [])]) l.effect.dispose();
 		this.#retired = [];
 		this.loaded = null;
-		this.input.dispose();
-		this.output.dispose();
 		this.#bypass.dispose();
 	}
 }
 
+/** A rack on one deck, between the deck's summing nodes before and after it (the deck owns those). */
 export class RackInsert {
-	readonly input = new Gain(1);
-	readonly output = new Gain(1);
 	#dry = new Gain(1);
 	#wet = new Gain(0);
+	#joints: Gain[] = [];
 	#slots: SlotStage[] = [];
 	#built = false;
 	#bpm: number;
@@ -92,7 +87,9 @@ export class RackInsert {
 	constructor(
 		readonly rack: number,
 		readonly deck: DeckId,
-		bpm: number
+		bpm: number,
+		readonly input: Gain,
+		readonly output: Gain
 	) {
 		this.#bpm = bpm;
 		this.input.chain(this.#dry, this.output);
@@ -132,15 +129,14 @@ export class RackInsert {
 
 	#build() {
 		this.#built = true;
-		this.#slots = [0, 1, 2].map(() => new SlotStage());
-		this.input.connect(this.#slots[0].input);
-		this.#slots[0].output.connect(this.#slots[1].input);
-		this.#slots[1].output.connect(this.#slots[2].input);
-		this.#slots[2].output.chain(this.#wet, this.output);
+		this.#joints = [new Gain(1), new Gain(1)];
+		const joints = [this.input, ...this.#joints, this.#wet];
+		this.#slots = [0, 1, 2].map((i) => new SlotStage(joints[i], joints[i + 1]));
+		this.#wet.connect(this.output);
 	}
 
 	dispose() {
 		for (const s of this.#slots) s.dispose();
-		for (const n of [this.input, this.output, this.#dry, this.#wet]) n.dispose();
+		for (const n of [this.#dry, this.#wet, ...this.#joints]) n.dispose();
 	}
 }

@@ -1,4 +1,4 @@
-import { Delay, Gain, LFO } from 'tone';
+import { Delay, Gain, connect } from 'tone';
 import { RackEffect, rampParam, type EffectOptions } from './effect';
 
 const BASE = 0.0005; // seconds: the closest the sweep gets
@@ -16,22 +16,26 @@ export class Flanger extends RackEffect {
 	#second = this.own(new Delay({ maxDelay: 0.02 }));
 	#firstLevel = this.own(new Gain(0.5));
 	#secondLevel = this.own(new Gain(0));
-	#sweep = this.own(new LFO({ frequency: 1, min: BASE, max: BASE + 0.003 }));
+	#sweep = this.sine(1);
 
 	constructor(options: EffectOptions) {
 		super(options);
 		this.input.chain(this.#dry, this.output);
 		this.input.chain(this.#first, this.#firstLevel, this.output);
 		this.#first.chain(this.#second, this.#secondLevel, this.output);
-		this.#sweep.connect(this.#first.delayTime);
-		this.#sweep.connect(this.#second.delayTime);
-		this.#sweep.start(0);
+		connect(this.#sweep.depth, this.#first.delayTime);
+		connect(this.#sweep.depth, this.#second.delayTime);
 		this.init();
 	}
 
 	protected apply(param: string, value: number, time: number) {
 		if (param === 'rate') this.retime(time);
-		if (param === 'depth') this.#sweep.max = BASE + 0.006 * Math.max(0.02, value);
+		if (param === 'depth') {
+			// The LFO swings ±half the span around each delay's own time: BASE to BASE + span.
+			const span = 0.006 * Math.max(0.02, value);
+			for (const d of [this.#first, this.#second]) rampParam(d.delayTime, BASE + span / 2, time, 0.005);
+			rampParam(this.#sweep.depth.gain, span / 2, time, 0.005);
+		}
 		if (param === 'feedback') {
 			rampParam(this.#firstLevel.gain, 0.5 - 0.15 * value, time, 0.005);
 			rampParam(this.#secondLevel.gain, 0.35 * value, time, 0.005);

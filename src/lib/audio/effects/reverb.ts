@@ -1,4 +1,4 @@
-import { Convolver, Delay, Gain, Merge, ToneAudioBuffer, connect, connectSeries } from 'tone';
+import { Delay, Gain, Merge, connect, connectSeries } from 'tone';
 import { seededNoise } from '../measure';
 import { RackEffect, rampParam, type EffectOptions } from './effect';
 
@@ -7,8 +7,9 @@ const SWAP = 0.04; // seconds of crossfade when size or decay makes a new impuls
 /**
  * Convolution reverb over a generated impulse response: noise with an exponential decay to
  * −60 dB at the decay time. Size scales the decay and the pre-delay. A new response is swapped in
- * with a short crossfade between two convolvers. The tail is convolved once, in mono (half the
- * cost of a stereo pair offline), and spread by giving the right side a few ms more delay.
+ * with a short crossfade between two convolvers; the second is made at the first swap, since a
+ * convolver costs on every frame. The tail is convolved once, in mono (half the cost of a stereo
+ * pair offline), and spread by giving the right side a few ms more delay.
  */
 export class Reverb extends RackEffect {
 	readonly id = 'reverb';
@@ -18,11 +19,8 @@ export class Reverb extends RackEffect {
 	#spread = this.own(new Delay({ delayTime: 0.013, maxDelay: 0.02 }));
 	#sides = this.own(new Merge());
 	#damping = this.biquad('lowpass', 6000, 0.5);
-	#rooms = [0, 1].map(() => ({
-		convolver: this.own(new Convolver({ normalize: false })),
-		level: this.own(new Gain(0))
-	}));
-	#live = 0;
+	#rooms: { convolver: ConvolverNode; level: Gain }[] = [];
+	#live = 1;
 	#seed = 1;
 	#shape = '';
 
@@ -31,12 +29,6 @@ export class Reverb extends RackEffect {
 		this.#mono.channelCount = 1;
 		this.#mono.channelCountMode = 'explicit';
 		connectSeries(this.input, this.#mono, this.#predelay, this.#damping);
-		for (const room of this.#rooms) {
-			connect(this.#damping, room.convolver);
-			room.convolver.connect(room.level);
-			room.level.connect(this.#sides, 0, 0);
-			room.level.chain(this.#spread);
-		}
 		this.#spread.connect(this.#sides, 0, 1);
 		this.#sides.connect(this.output);
 		this.init();
@@ -55,11 +47,24 @@ export class Reverb extends RackEffect {
 		const shape = seconds.toFixed(3);
 		if (shape === this.#shape) return;
 		this.#shape = shape;
-		const next = this.#rooms[1 - this.#live];
-		next.convolver.buffer = new ToneAudioBuffer(impulse(this.context.rawContext, seconds, this.#seed++));
-		rampParam(this.#rooms[this.#live].level.gain, 0, time, SWAP);
+		const next = this.#rooms[1 - this.#live] ?? this.#room();
+		next.convolver.buffer = impulse(this.context.rawContext, seconds, this.#seed++);
+		const live = this.#rooms[this.#live];
+		if (live) rampParam(live.level.gain, 0, time, SWAP);
 		rampParam(next.level.gain, 1, time, SWAP);
 		this.#live = 1 - this.#live;
+	}
+
+	#room() {
+		const convolver = this.context.createConvolver();
+		convolver.normalize = false;
+		const level = this.own(new Gain(0));
+		this.own({ dispose: () => convolver.disconnect() });
+		connectSeries(this.#damping, convolver, level);
+		level.connect(this.#sides, 0, 0);
+		level.connect(this.#spread);
+		this.#rooms.push({ convolver, level });
+		return this.#rooms[this.#rooms.length - 1];
 	}
 
 	private get context() {

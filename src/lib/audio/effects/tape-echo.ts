@@ -1,4 +1,4 @@
-import { Delay, Gain, Oscillator, WaveShaper, connectSeries } from 'tone';
+import { Delay, Gain, WaveShaper, connect, connectSeries } from 'tone';
 import { RackEffect, cycleLag, rampParam, type EffectOptions } from './effect';
 
 const WOW_HZ = 0.6;
@@ -13,16 +13,14 @@ export class TapeEcho extends RackEffect {
 	#loss = this.biquad('lowpass', 6000, 0.5);
 	#saturate = this.own(new WaveShaper((x) => Math.tanh(1.5 * x) / Math.tanh(1.5), 1024));
 	#feedback = this.own(new Gain(0));
-	#wow = this.own(new Oscillator({ frequency: WOW_HZ, type: 'sine' }));
-	#wowDepth = this.own(new Gain(0));
+	#wow = this.sine(WOW_HZ);
 
 	constructor(options: EffectOptions) {
 		super(options);
 		this.#lag.delayTime.value = cycleLag(this.input.context.sampleRate);
 		connectSeries(this.input, this.#head, this.#lag, this.#delay, this.output);
 		connectSeries(this.#delay, this.#loss, this.#saturate, this.#feedback, this.#delay);
-		this.#wow.chain(this.#wowDepth, this.#delay.delayTime);
-		this.#wow.start(0);
+		connect(this.#wow.depth, this.#delay.delayTime);
 		this.init();
 	}
 
@@ -31,7 +29,7 @@ export class TapeEcho extends RackEffect {
 		if (param === 'feedback') rampParam(this.#feedback.gain, 0.9 * value, time, 0.005);
 		if (param === 'wear') {
 			// More wear: deeper wow (up to 4 ms), duller head and loop.
-			rampParam(this.#wowDepth.gain, 0.0005 + 0.0035 * value, time, 0.005);
+			rampParam(this.#wow.depth.gain, 0.0005 + 0.0035 * value, time, 0.005);
 			rampParam(this.#head.frequency, 12000 * Math.pow(0.25, value), time, 0.005);
 			rampParam(this.#loss.frequency, 6000 * Math.pow(0.3, value), time, 0.005);
 		}
