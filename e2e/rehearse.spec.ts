@@ -185,3 +185,22 @@ test('record, play, stop: the saved session keeps the MIDI bytes and links to it
 	expect(times).toEqual([...times].sort((a, b) => a - b));
 	await expect(page.getByTestId('record-saved')).toContainText('Chord drill');
 });
+
+test('without Web Audio the room says so, and the pads and findings still work', async ({ page }) => {
+	await page.addInitScript(() => {
+		const scope = window as unknown as Record<string, unknown>;
+		delete scope.AudioContext;
+		delete scope.webkitAudioContext;
+	});
+	await installFakeMidi(page, { ports: [] });
+	await openRoom(page, 'Broken stutter row');
+	await expect(page.getByTestId('audio-problem')).toContainText('no Web Audio');
+	await expect(page.getByTestId('start-sound')).toHaveCount(0);
+
+	await page.keyboard.down('Digit1'); // pad-13
+	await page.keyboard.down('Digit2'); // pad-14
+	await page.keyboard.up('Digit1');
+	await expect(page.getByTestId('live-finding')).toHaveAttribute('data-input', 'pad-14');
+	await page.keyboard.up('Digit2');
+	await expect(page.getByTestId('live-finding')).toHaveCount(0);
+});
