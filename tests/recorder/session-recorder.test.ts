@@ -1,5 +1,5 @@
 import 'fake-indexeddb/auto';
-import { ChunkQueue } from '$lib/recorder/chunk-queue';
+import { ChunkQueue, type SyncStore } from '$lib/recorder/chunk-queue';
 import { SessionRecorder } from '$lib/recorder/session-recorder.svelte';
 import { createStore } from 'idb-keyval';
 import { afterEach, describe, expect, it } from 'vitest';
@@ -9,9 +9,32 @@ let stores = 0;
 const recorders: SessionRecorder[] = [];
 afterEach(() => recorders.splice(0).forEach((r) => r.dispose()));
 
-/** A recorder as a page makes one, with its own outbox store (a reload opens the same store again). */
+/** localStorage's interface over a Map; a "reload" opens the same one again. */
+function memoryStorage(): SyncStore {
+	const items = new Map<string, string>();
+	return {
+		getItem: (k) => items.get(k) ?? null,
+		setItem: (k, v) => void items.set(k, v),
+		removeItem: (k) => void items.delete(k),
+		key: (i) => [...items.keys()][i] ?? null,
+		get length() {
+			return items.size;
+		}
+	};
+}
+const syncStores = new Map<string, SyncStore>();
+
+/** A recorder as a page makes one, with its own outbox stores (a reload opens the same stores again). */
 function recorderFor(server: ReturnType<typeof fakeServer>, storeName: string) {
-	const recorder = new SessionRecorder({ mappingId: 'm1', tempo: () => 120, flushEveryMs: 60_000, fetch: server.fetch, store: createStore(storeName, 'outbox') });
+	if (!syncStores.has(storeName)) syncStores.set(storeName, memoryStorage());
+	const recorder = new SessionRecorder({
+		mappingId: 'm1',
+		tempo: () => 120,
+		flushEveryMs: 60_000,
+		fetch: server.fetch,
+		store: createStore(storeName, 'outbox'),
+		sync: syncStores.get(storeName)
+	});
 	recorders.push(recorder);
 	return recorder;
 }
@@ -22,10 +45,13 @@ describe('ChunkQueue', () => {
 	it('keeps chunks that could not be sent and sends them in order, once, later', async () => {
 		const sent: number[] = [];
 		let up = false;
-		const queue = new ChunkQueue(async (_id, chunk) => {
-			if (!up) throw new Error('offline');
-			sent.push(chunk.seq);
-		}, createStore(`queue-test-${++stores}`, 'outbox'));
+		const queue = new ChunkQueue(
+			async (_id, chunk) => {
+				if (!up) throw new Error('offline');
+				sent.push(chunk.seq);
+			},
+			{ store: createStore(`queue-test-${++stores}`, 'outbox'), sync: memoryStorage() }
+		);
 		const rec = { sessionId: 's1', mappingId: 'm1', name: 'x', startEpoch: 0, nextSeq: 0, eventCount: 0 };
 		for (let i = 0; i < 3; i++) await queue.enqueue(rec, [{ t: i, input: null }]);
 		expect(await queue.flush('s1')).toBe(3);
@@ -92,6 +118,26 @@ describe('SessionRecorder', () => {
 		await second.stop();
 		expect(server.events('s1').map((e) => e.t)).toEqual([10, 20, 30]);
 		expect(await recorderFor(server, storeName).resume()).toBe(false);
+	});
+
+	it('keeps what a closing page hands off even when its delivery is lost, and never reuses its number', async () => {
+		const server = fakeServer();
+		const storeName = `rec-${++stores}`;
+		const first = recorderFor(server, storeName);
+		await first.start();
+		first.record(press(10));
+		first.record(press(20));
+		server.setOnline(false); // the beacon is lost too
+		first.leaving();
+		first.dispose(); // the tab closes before any IndexedDB write could finish
+
+		server.setOnline(true);
+		const second = recorderFor(server, storeName);
+		expect(await second.resume()).toBe(true);
+		expect(second.eventCount).toBe(2);
+		second.record(press(30));
+		await second.stop();
+		expect(server.events('s1').map((e) => e.t)).toEqual([10, 20, 30]);
 	});
 
 	it('sends a chunk the server already holds again without storing it twice', async () => {

@@ -1,7 +1,10 @@
-// The recorder's outbox. Events are cut into numbered chunks; each chunk is written to IndexedDB
+// The recorder's outbox. Events are cut into numbered chunks; each chunk is kept in the browser
 // before it is sent and deleted only once the server confirms it. The server keeps a chunk once
 // per number, so sending again after a lost answer, a reload or an outage never doubles an event.
-import { createStore, del, entries, get, set, type UseStore } from 'idb-keyval';
+// The recording's own record (next chunk number, event count) lives in synchronous storage
+// (localStorage), so a page closing mid-write can never hand out a chunk number twice; chunks
+// cut while the page is closing are stashed there too, as IndexedDB writes may not finish then.
+import { createStore, del, entries, set, type UseStore } from 'idb-keyval';
 import type { SessionEvent } from '$lib/engine';
 
 export interface ActiveRecording {
@@ -20,49 +23,75 @@ export interface Chunk {
 
 export type SendChunk = (sessionId: string, chunk: Chunk) => Promise<void>;
 
-const activeKey = (mappingId: string) => `active:${mappingId}`;
+export type SyncStore = Pick<Storage, 'getItem' | 'setItem' | 'removeItem'> & { key(i: number): string | null; readonly length: number };
+
+const PREFIX = 'padproof.recording.';
+const activeKey = (mappingId: string) => `${PREFIX}active:${mappingId}`;
 const chunkKey = (sessionId: string, seq: number) => `chunk:${sessionId}:${String(seq).padStart(9, '0')}`;
 
 export class ChunkQueue {
 	#store: UseStore;
+	#sync: SyncStore;
 	#sending: Promise<number> | null = null;
 
 	constructor(
 		readonly send: SendChunk,
-		store?: UseStore
+		options: { store?: UseStore; sync?: SyncStore } = {}
 	) {
-		this.#store = store ?? createStore('padproof-recorder', 'outbox');
+		this.#store = options.store ?? createStore('padproof-recorder', 'outbox');
+		this.#sync = options.sync ?? globalThis.localStorage;
 	}
 
-	active(mappingId: string): Promise<ActiveRecording | undefined> {
-		return get<ActiveRecording>(activeKey(mappingId), this.#store);
+	active(mappingId: string): ActiveRecording | undefined {
+		const raw = this.#sync.getItem(activeKey(mappingId));
+		return raw ? (JSON.parse(raw) as ActiveRecording) : undefined;
 	}
 
-	saveActive(recording: ActiveRecording): Promise<void> {
-		return set(activeKey(recording.mappingId), recording, this.#store);
+	saveActive(recording: ActiveRecording): void {
+		this.#sync.setItem(activeKey(recording.mappingId), JSON.stringify(recording));
 	}
 
-	clearActive(mappingId: string): Promise<void> {
-		return del(activeKey(mappingId), this.#store);
+	clearActive(mappingId: string): void {
+		this.#sync.removeItem(activeKey(mappingId));
 	}
 
-	/** Numbers a chunk and keeps it until the server has it. */
-	async enqueue(recording: ActiveRecording, events: SessionEvent[]): Promise<Chunk> {
+	#take(recording: ActiveRecording, events: SessionEvent[]): Chunk {
 		const chunk = { seq: recording.nextSeq, events };
 		recording.nextSeq += 1;
 		recording.eventCount += events.length;
-		await set(chunkKey(recording.sessionId, chunk.seq), chunk, this.#store);
-		await this.saveActive(recording);
+		this.saveActive(recording);
 		return chunk;
+	}
+
+	/** Numbers a chunk and keeps it in IndexedDB until the server has it. */
+	async enqueue(recording: ActiveRecording, events: SessionEvent[]): Promise<Chunk> {
+		const chunk = this.#take(recording, events);
+		await set(chunkKey(recording.sessionId, chunk.seq), chunk, this.#store);
+		return chunk;
+	}
+
+	/** The same, synchronously, for a page that is closing (kept in localStorage). */
+	stash(recording: ActiveRecording, events: SessionEvent[]): Chunk {
+		const chunk = this.#take(recording, events);
+		this.#sync.setItem(PREFIX + chunkKey(recording.sessionId, chunk.seq), JSON.stringify(chunk));
+		return chunk;
+	}
+
+	#stashed(sessionId: string): Chunk[] {
+		const prefix = `${PREFIX}chunk:${sessionId}:`;
+		const found: Chunk[] = [];
+		for (let i = 0; i < this.#sync.length; i++) {
+			const key = this.#sync.key(i);
+			if (key?.startsWith(prefix)) found.push(JSON.parse(this.#sync.getItem(key)!) as Chunk);
+		}
+		return found;
 	}
 
 	async unsent(sessionId: string): Promise<Chunk[]> {
 		const prefix = `chunk:${sessionId}:`;
-		const all = await entries<string, Chunk>(this.#store);
-		return all
-			.filter(([key]) => typeof key === 'string' && key.startsWith(prefix))
-			.map(([, chunk]) => chunk)
-			.sort((a, b) => a.seq - b.seq);
+		const kept = (await entries<string, Chunk>(this.#store)).filter(([key]) => typeof key === 'string' && key.startsWith(prefix)).map(([, c]) => c);
+		const bySeq = new Map([...kept, ...this.#stashed(sessionId)].map((c) => [c.seq, c]));
+		return [...bySeq.values()].sort((a, b) => a.seq - b.seq);
 	}
 
 	/** Sends every waiting chunk in order; stops at the first failure. Returns how many are still waiting. */
@@ -80,7 +109,9 @@ export class ChunkQueue {
 			} catch {
 				return waiting.length - i;
 			}
-			await del(chunkKey(sessionId, waiting[i].seq), this.#store);
+			const key = chunkKey(sessionId, waiting[i].seq);
+			await del(key, this.#store);
+			this.#sync.removeItem(PREFIX + key);
 		}
 		return 0;
 	}

@@ -3,7 +3,7 @@
 // and sent again after an outage or a reload. A reload resumes the unfinished recording.
 import type { SessionEvent } from '$lib/engine';
 import type { UseStore } from 'idb-keyval';
-import { ChunkQueue, type ActiveRecording, type Chunk } from './chunk-queue';
+import { ChunkQueue, type ActiveRecording, type Chunk, type SyncStore } from './chunk-queue';
 import { uploadAudio } from './upload';
 
 export type RecorderStatus = 'idle' | 'starting' | 'recording' | 'stopping' | 'saved' | 'failed';
@@ -13,6 +13,7 @@ export interface RecorderOptions {
 	tempo: () => number;
 	flushEveryMs?: number;
 	store?: UseStore; // IndexedDB store for the outbox (tests give their own)
+	sync?: SyncStore; // synchronous storage for the recording's record (default localStorage)
 	fetch?: typeof fetch;
 }
 
@@ -44,13 +45,14 @@ export class SessionRecorder {
 	#media: MediaRecorder | null = null;
 	#audioParts: Blob[] = [];
 	#onHidden = () => {
-		if (document.visibilityState === 'hidden') this.#beacon();
+		if (document.visibilityState === 'hidden') this.leaving();
 	};
+	#onPageHide = () => this.leaving();
 
 	constructor(options: RecorderOptions) {
 		this.#options = options;
 		this.#fetch = options.fetch ?? ((...args) => fetch(...args));
-		this.#queue = new ChunkQueue((id, chunk) => this.#send(id, chunk), options.store);
+		this.#queue = new ChunkQueue((id, chunk) => this.#send(id, chunk), { store: options.store, sync: options.sync });
 	}
 
 	/** Milliseconds since the recording started, on the session clock (0 when not recording). */
@@ -73,7 +75,7 @@ export class SessionRecorder {
 			const response = await this.#json('/api/sessions', { mappingId: this.#options.mappingId, name: name?.trim() || undefined, tempo: this.#options.tempo(), startedAt: startedAt.toISOString() });
 			const { id, name: given } = response as { id: string; name: string };
 			this.#recording = { sessionId: id, mappingId: this.#options.mappingId, name: given, startEpoch: startedAt.getTime(), nextSeq: 0, eventCount: 0 };
-			await this.#queue.saveActive(this.#recording);
+			this.#queue.saveActive(this.#recording);
 			this.#begin();
 			this.#media?.start(1000);
 		} catch (e) {
@@ -84,7 +86,7 @@ export class SessionRecorder {
 
 	/** Continues an unfinished recording of this mapping after a reload; true when there was one. */
 	async resume(): Promise<boolean> {
-		const active = await this.#queue.active(this.#options.mappingId);
+		const active = this.#queue.active(this.#options.mappingId);
 		if (!active) return false;
 		this.#recording = active;
 		this.eventCount = active.eventCount;
@@ -119,7 +121,7 @@ export class SessionRecorder {
 		try {
 			const result = (await this.#json(`/api/sessions/${recording.sessionId}`, { finish: true, name: name?.trim() || undefined }, 'PATCH')) as { findings: number };
 			if (audio) await this.#upload(recording.sessionId, audio);
-			await this.#queue.clearActive(recording.mappingId);
+			this.#queue.clearActive(recording.mappingId);
 			this.#end();
 			this.status = 'saved';
 			this.error = null;
@@ -147,7 +149,7 @@ export class SessionRecorder {
 	dispose(): void {
 		clearInterval(this.#timer);
 		if (typeof document !== 'undefined') document.removeEventListener('visibilitychange', this.#onHidden);
-		if (typeof window !== 'undefined') window.removeEventListener('pagehide', this.#onHidden);
+		if (typeof window !== 'undefined') window.removeEventListener('pagehide', this.#onPageHide);
 		if (this.#media?.state === 'recording') this.#media.stop();
 	}
 
@@ -157,7 +159,7 @@ export class SessionRecorder {
 		this.status = 'recording';
 		this.#timer = setInterval(() => void this.#tick(), this.#options.flushEveryMs ?? 2000);
 		if (typeof document !== 'undefined') document.addEventListener('visibilitychange', this.#onHidden);
-		if (typeof window !== 'undefined') window.addEventListener('pagehide', this.#onHidden);
+		if (typeof window !== 'undefined') window.addEventListener('pagehide', this.#onPageHide);
 	}
 
 	#end() {
@@ -191,13 +193,16 @@ export class SessionRecorder {
 		return (await this.#queue.unsent(this.#recording.sessionId)).reduce((n, c) => n + c.events.length, 0);
 	}
 
-	/** The page is going away: hand the last events to the browser to deliver, and keep them too. */
-	#beacon() {
+	/**
+	 * The page is being hidden or closed: keep the last events synchronously and hand them to the
+	 * browser to deliver (sendBeacon outlives the page). Called by the page's own listeners.
+	 */
+	leaving() {
 		const recording = this.#recording;
 		if (!recording || this.#pending.length === 0) return;
-		const chunk = { seq: recording.nextSeq, events: this.#pending };
-		navigator.sendBeacon?.(`/api/sessions/${recording.sessionId}/chunks`, JSON.stringify(chunk));
-		void this.#cut();
+		const chunk = this.#queue.stash(recording, this.#pending);
+		this.#pending = [];
+		globalThis.navigator?.sendBeacon?.(`/api/sessions/${recording.sessionId}/chunks`, JSON.stringify(chunk));
 	}
 
 	async #send(sessionId: string, chunk: Chunk): Promise<void> {

@@ -1,0 +1,84 @@
+// Nothing recorded is lost: the network cut mid-take, and the page reloaded mid-take.
+import { expect, test, type Page } from '@playwright/test';
+import { installFakeMidi, ONE_CONTROLLER } from './fake-midi';
+import { open, signIn } from './support';
+
+// MIDI 1.0: 0x90 Note On, 0x80 Note Off, channel 1. The demo pad-1..pad-16 are notes 36–51.
+const NOTE_ON = 0x90;
+const NOTE_OFF = 0x80;
+
+async function openRoom(page: Page, name: string) {
+	await signIn(page, 'student');
+	const { mappings } = (await (await page.request.get('/api/mappings')).json()) as { mappings: { id: string; name: string }[] };
+	await open(page, `/rehearse/${mappings.find((m) => m.name === name)!.id}`);
+	await expect(page.getByTestId('midi-status')).toHaveAttribute('data-status', 'ready', { timeout: 15_000 });
+}
+
+/** Taps pads 1..count once each: 2 events a tap, each Note On velocity 1..127 so every event is told apart. */
+async function tap(midi: Awaited<ReturnType<typeof installFakeMidi>>, first: number, count: number) {
+	for (let i = 0; i < count; i++) {
+		const note = 36 + ((first + i) % 16);
+		await midi.send('pads-in', [NOTE_ON, note, 1 + ((first + i) % 127)]);
+		await midi.send('pads-in', [NOTE_OFF, note, 0]);
+	}
+}
+
+async function savedSession(page: Page) {
+	const href = await page.getByTestId('record-replay-link').getAttribute('href');
+	const response = await page.request.get(`/api${href}`);
+	expect(response.ok()).toBe(true);
+	return (await response.json()) as { events: { t: number; midi?: number[] }[] };
+}
+
+test('a take recorded through a network cut reaches the server with every event exactly once', async ({ page }) => {
+	const midi = await installFakeMidi(page, { ports: ONE_CONTROLLER });
+	await openRoom(page, 'Two-deck pad set');
+	await page.getByTestId('count-in-toggle').uncheck();
+	await page.getByTestId('record-start').click();
+	await expect(page.getByTestId('recorder')).toHaveAttribute('data-status', 'recording');
+
+	await tap(midi, 0, 5);
+	await expect(page.getByTestId('record-unsent')).toHaveText('waiting to send: 0', { timeout: 10_000 });
+
+	await page.route('**/api/sessions/*/chunks', (route) => route.abort('internetdisconnected'));
+	await tap(midi, 5, 10);
+	await expect(page.getByTestId('record-offline')).toBeVisible({ timeout: 10_000 });
+	await expect(page.getByTestId('record-unsent')).toHaveText('waiting to send: 20');
+	await tap(midi, 15, 5);
+
+	await page.unroute('**/api/sessions/*/chunks');
+	await expect(page.getByTestId('record-unsent')).toHaveText('waiting to send: 0', { timeout: 10_000 });
+	await expect(page.getByTestId('record-offline')).toHaveCount(0);
+	await page.getByTestId('record-stop').click();
+	await expect(page.getByTestId('record-saved')).toBeVisible();
+
+	const session = await savedSession(page);
+	expect(session.events).toHaveLength(40);
+	const velocities = session.events.filter((e) => e.midi?.[0] === NOTE_ON).map((e) => e.midi![2]);
+	expect(velocities).toEqual(Array.from({ length: 20 }, (_, i) => i + 1));
+});
+
+test('a reload mid-take resumes the recording and loses nothing', async ({ page }) => {
+	const midi = await installFakeMidi(page, { ports: ONE_CONTROLLER });
+	await openRoom(page, 'Two-deck pad set');
+	await page.getByTestId('count-in-toggle').uncheck();
+	await page.getByTestId('record-start').click();
+	await expect(page.getByTestId('recorder')).toHaveAttribute('data-status', 'recording');
+	await tap(midi, 0, 6);
+	await expect(page.getByTestId('record-events')).toHaveText('12');
+
+	// Reload at once: the last events have not been sent by the 2-second tick yet.
+	await page.reload();
+	await page.locator('html[data-ready]').waitFor();
+	await expect(page.getByTestId('record-resumed')).toBeVisible({ timeout: 15_000 });
+	await expect(page.getByTestId('midi-status')).toHaveAttribute('data-status', 'ready', { timeout: 15_000 });
+	await tap(midi, 6, 4);
+	await expect(page.getByTestId('record-events')).toHaveText('20');
+	await page.getByTestId('record-stop').click();
+	await expect(page.getByTestId('record-saved')).toBeVisible();
+
+	const session = await savedSession(page);
+	const velocities = session.events.filter((e) => e.midi?.[0] === NOTE_ON).map((e) => e.midi![2]);
+	expect(velocities).toEqual(Array.from({ length: 10 }, (_, i) => i + 1));
+	expect(session.events).toHaveLength(20);
+});
