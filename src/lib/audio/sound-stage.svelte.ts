@@ -50,6 +50,7 @@ export class SoundStage {
 			const now = tone.getContext().currentTime;
 			this.#rig = await AudioRig.create({ tempo: this.tempo, origin: now, state: this.#rigState() });
 			this.#rig.master.setLevel(this.masterDb, now);
+			this.#rig.master.output.toDestination(); // the rig renders offline too, so live pages wire the speakers
 			for (const d of DECK_IDS) this.#applyDeck(d);
 			this.#rig.startClock();
 			this.status = 'running';

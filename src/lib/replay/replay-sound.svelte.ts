@@ -36,6 +36,7 @@ export class ReplaySound {
 			const now = tone.getContext().currentTime;
 			const rig = await AudioRig.create({ tempo, origin: now, state: silent(state) });
 			rig.master.setLevel(DEFAULT_MASTER_DB, now);
+			rig.master.output.toDestination();
 			for (const [deck, loop] of Object.entries(REPLAY_LOOPS)) rig.setLoop(deck as DeckId, findLoop(loop));
 			rig.startClock();
 			this.#rig = rig;
