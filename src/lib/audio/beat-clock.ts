@@ -30,6 +30,13 @@ export class BeatClock {
 		return this.#segmentAt(time).bpm;
 	}
 
+	/** The context time of `beat` (the inverse of beatAt). */
+	timeAt(beat: number): number {
+		let s = this.#segments[0];
+		for (const segment of this.#segments) if (segment.beat <= beat) s = segment;
+		return s.time + ((beat - s.beat) * 60) / s.bpm;
+	}
+
 	beatAt(time: number): number {
 		const s = this.#segmentAt(time);
 		return s.beat + ((time - s.time) * s.bpm) / 60;

@@ -24,9 +24,8 @@ export class DeckChannel {
 		readonly deck: DeckId,
 		readonly clock: BeatClock
 	) {
-		const bpm = clock.bpmAt(clock.origin);
 		const joints = [this.#play, ...this.#joints, this.output];
-		this.inserts = Array.from({ length: RACK_COUNT }, (_, i) => new RackInsert(i + 1, deck, bpm, joints[i], joints[i + 1]));
+		this.inserts = Array.from({ length: RACK_COUNT }, (_, i) => new RackInsert(i + 1, deck, clock, joints[i], joints[i + 1]));
 	}
 
 	get loop(): DemoLoop | null {

@@ -3,8 +3,9 @@
 // routed to this deck and replaced with a short crossfade when a slot's effect changes.
 import { Gain } from 'tone';
 import type { DeckId, EffectId, RackState } from '$lib/engine/types';
+import type { BeatClock } from './beat-clock';
 import { createEffect, type RackEffect } from './effects';
-import { rampParam } from './effects/effect';
+import { rampParam, type EffectOptions } from './effects/effect';
 import { equalPowerGains } from './mix';
 import { rackEngaged, slotActive, slotValues } from './slot-values';
 
@@ -30,7 +31,7 @@ class SlotStage {
 		this.input.chain(this.#bypass, this.output);
 	}
 
-	load(id: EffectId | null, bpm: number, time: number) {
+	load(id: EffectId | null, options: EffectOptions, time: number) {
 		if (this.loaded?.id === id) return;
 		this.#sweep();
 		if (this.loaded) {
@@ -40,7 +41,7 @@ class SlotStage {
 			this.loaded = null;
 		}
 		if (id === null) return;
-		const effect = createEffect(id, { bpm });
+		const effect = createEffect(id, options);
 		effect.output.gain.setValueAtTime(0, 0); // silent until the slot engages (a past time: at once)
 		this.input.connect(effect.input);
 		effect.output.connect(this.output);
@@ -87,11 +88,11 @@ export class RackInsert {
 	constructor(
 		readonly rack: number,
 		readonly deck: DeckId,
-		bpm: number,
+		readonly clock: BeatClock,
 		readonly input: Gain,
 		readonly output: Gain
 	) {
-		this.#bpm = bpm;
+		this.#bpm = clock.bpmAt(clock.origin);
 		this.input.chain(this.#dry, this.output);
 	}
 
@@ -105,7 +106,7 @@ export class RackInsert {
 		rampParam(this.#wet.gain, gains.wet, time, RACK_FADE);
 		this.#slots.forEach((stage, i) => {
 			const effect = rack.slots[i].effect;
-			stage.load(effect, this.#bpm, time);
+			stage.load(effect, { bpm: this.#bpm, clock: this.clock }, time);
 			const active = slotActive(rack, i);
 			if (stage.loaded && effect) {
 				for (const [param, value] of Object.entries(slotValues(rack, i, effect))) {

@@ -42,7 +42,6 @@ export class AudioRig {
 		this.origin = origin;
 		this.lookAhead = lookAhead;
 		this.clock = new BeatClock(tempo, origin);
-		this.context.transport.bpm.setValueAtTime(tempo, 0);
 		this.decks = Object.fromEntries(DECK_IDS.map((d) => [d, new DeckChannel(d, this.clock)])) as Record<DeckId, DeckChannel>;
 		for (const d of DECK_IDS) this.decks[d].output.connect(this.master.input);
 		this.#state = structuredClone(state);
@@ -92,7 +91,6 @@ export class AudioRig {
 
 	setTempo(bpm: number, time = this.context.currentTime): void {
 		this.clock.setTempo(bpm, time);
-		this.context.transport.bpm.setValueAtTime(bpm, time);
 		within(this.context, () => DECK_IDS.forEach((d) => this.decks[d].retime(time)));
 	}
 
@@ -100,10 +98,12 @@ export class AudioRig {
 		within(this.context, () => this.decks[deck].setLoop(loop, time));
 	}
 
-	/** Starts the beat clock's transport (gate cycles run on it) at the clock's origin. */
-	startClock(): void {
-		this.context.transport.start(this.clock.origin);
-	}
+	/**
+	 * Marks the rig as running from the clock's origin. Nothing waits for it any more: beat-synced
+	 * effects read the beat clock itself, not Tone's transport (whose ticks cost script time all
+	 * through an offline render).
+	 */
+	startClock(): void {}
 
 	#follow(touched: Touched, time: number) {
 		for (const r of touched.racks) {
@@ -117,8 +117,6 @@ export class AudioRig {
 	}
 
 	dispose(): void {
-		this.context.transport.stop();
-		this.context.transport.cancel(0);
 		for (const d of DECK_IDS) this.decks[d].dispose();
 		this.master.dispose();
 	}

@@ -5,12 +5,15 @@ import { Gain } from 'tone';
 import { EFFECTS, divisionFromValue, divisionMs } from '$lib/engine/effects';
 import { scaleParam, spec } from '../params';
 import type { EffectId } from '$lib/engine/types';
+import type { BeatClock } from '../beat-clock';
 
 /** `add`: the slot keeps the dry signal and adds the wet (echoes, reverb); `replace`: wet only. */
 export type ChainBlend = 'add' | 'replace';
 
 export interface EffectOptions {
 	bpm: number;
+	/** The rig's beat clock, for effects that cycle on its grid. */
+	clock: BeatClock;
 }
 
 export { scaleParam, spec };

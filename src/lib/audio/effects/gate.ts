@@ -1,41 +1,64 @@
 import { Gain, type BaseContext } from 'tone';
-import { divisionFromValue } from '$lib/engine/effects';
+import { divisionFraction, divisionFromValue } from '$lib/engine/effects';
+import type { BeatClock } from '../beat-clock';
 import { RackEffect, spec, type EffectOptions } from './effect';
 
 const MIN_EDGE = 0.001; // seconds; even the hardest chop ramps this long so it never clicks
+const AHEAD = 0.5; // seconds of cycles kept scheduled past the context's current time
 
 /**
  * Tempo-synced chop: open for the first half of every division on the beat clock, closed (by
- * `depth`) for the second half. Shape softens the edges. Cycles are scheduled on the transport,
- * so the rate follows tempo changes and stays on the grid.
+ * `depth`) for the second half. Shape softens the edges. Cycles sit on the rig's beat clock, so
+ * the rate follows tempo changes and stays on the grid. They are written as gain automation a
+ * little ahead of the context's clock as it ticks (Tone's transport would do the same, at several
+ * times the script time of a whole offline render).
  */
 export class Gate extends RackEffect {
 	readonly id = 'gate';
 	readonly blend = 'replace';
 	#gain = this.own(new Gain(1));
-	#transport: BaseContext['transport'];
-	#repeat: number | null = null;
+	#context: BaseContext;
+	#clock: BeatClock;
+	#until = 0; // context time up to which cycles are written
+	#tick = () => this.#write(this.#context.currentTime + AHEAD);
 
 	constructor(options: EffectOptions) {
 		super(options);
-		this.#transport = this.#gain.context.transport;
+		this.#clock = options.clock;
+		this.#context = this.#gain.context;
 		this.input.chain(this.#gain, this.output);
 		this.init();
+		this.#context.on('tick', this.#tick);
 	}
 
-	protected apply(param: string) {
-		if (param === 'rate') this.#schedule();
+	protected apply(_param: string, _value: number, time: number) {
+		this.#rewrite(time);
 	}
 
-	#schedule() {
-		if (this.#repeat !== null) this.#transport.clear(this.#repeat);
-		const division = divisionFromValue(spec('gate', 'rate').divisions ?? [], this.values.rate);
-		const interval = noteName(division);
-		this.#repeat = this.#transport.scheduleRepeat((time) => this.#cycle(time, interval), interval, 0);
+	protected retime(time: number) {
+		this.#rewrite(time);
 	}
 
-	#cycle(time: number, interval: string) {
-		const period = this.#transport.toSeconds(interval);
+	/** Drops the cycles written from `time` on and writes them again with the current values. */
+	#rewrite(time: number) {
+		if (this.values.rate === undefined) return;
+		this.#gain.gain.cancelAndHoldAtTime(time);
+		this.#until = time;
+		this.#write(Math.max(time, this.#context.currentTime) + AHEAD);
+	}
+
+	/** Writes every cycle that starts in [#until, end). */
+	#write(end: number) {
+		if (end <= this.#until || this.values.rate === undefined) return;
+		const beats = 4 * divisionFraction(divisionFromValue(spec('gate', 'rate').divisions ?? [], this.values.rate));
+		let k = Math.max(0, Math.ceil(this.#clock.beatAt(this.#until) / beats - 1e-9));
+		for (let start = this.#clock.timeAt(k * beats); start < end; start = this.#clock.timeAt(++k * beats)) {
+			this.#cycle(start, (beats * 60) / this.#clock.bpmAt(start));
+		}
+		this.#until = end;
+	}
+
+	#cycle(time: number, period: number) {
 		const closed = 1 - (this.values.depth ?? 1);
 		const edge = Math.max(MIN_EDGE, (this.values.shape ?? 0) * period * 0.25);
 		const g = this.#gain.gain;
@@ -46,14 +69,7 @@ export class Gate extends RackEffect {
 	}
 
 	dispose() {
-		if (this.#repeat !== null) this.#transport.clear(this.#repeat);
+		this.#context.off('tick', this.#tick);
 		super.dispose();
 	}
-}
-
-/** `1/8` → `8n`, `1/8.` → `8n.`, `1/8t` → `8t`: the transport's own note values. */
-export function noteName(division: string): string {
-	const m = /^1\/(\d+)(\.|t)?$/.exec(division);
-	if (!m) throw new Error(`"${division}" is not a note value like 1/8`);
-	return m[2] === 't' ? `${m[1]}t` : `${m[1]}n${m[2] ?? ''}`;
 }
