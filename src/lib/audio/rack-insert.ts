@@ -83,6 +83,7 @@ export class RackInsert {
 	#joints: Gain[] = [];
 	#slots: SlotStage[] = [];
 	#built = false;
+	#direct: boolean;
 	#bpm: number;
 
 	constructor(
@@ -93,7 +94,11 @@ export class RackInsert {
 		readonly output: Gain
 	) {
 		this.#bpm = clock.bpmAt(clock.origin);
-		this.input.chain(this.#dry, this.output);
+		// Offline nothing sounds until the whole render is set up, so a rack not (yet) routed here
+		// passes straight through and is rewired when it is: a node fewer per idle rack and deck.
+		this.#direct = input.context.isOffline;
+		if (this.#direct) this.input.connect(this.output);
+		else this.input.chain(this.#dry, this.output);
 	}
 
 	/** Applies the rack's state at `time` (all of one event's changes share that time). */
@@ -130,6 +135,11 @@ export class RackInsert {
 
 	#build() {
 		this.#built = true;
+		if (this.#direct) {
+			this.input.disconnect(this.output);
+			this.input.chain(this.#dry, this.output);
+			this.#direct = false;
+		}
 		this.#joints = [new Gain(1), new Gain(1)];
 		const joints = [this.input, ...this.#joints, this.#wet];
 		this.#slots = [0, 1, 2].map((i) => new SlotStage(joints[i], joints[i + 1]));
