@@ -22,17 +22,25 @@ class PadproofCrusher extends AudioWorkletProcessor {
 		const output = outputs[0];
 		const step = Math.pow(0.5, parameters.bits[0] - 1);
 		const advance = Math.min(1, parameters.rate[0] / sampleRate);
-		const frames = output[0].length;
-		for (let i = 0; i < frames; i++) {
-			this.phase += advance;
-			const take = this.phase >= 1;
-			if (take) this.phase -= 1;
-			for (let c = 0; c < output.length; c++) {
-				const source = input[c] || input[0];
-				if (take) this.held[c] = source ? Math.round(source[i] / step) * step : 0;
-				output[c][i] = this.held[c];
+		// Channel by channel, each from the same phase: locals in the inner loop run about twice
+		// as fast as fields and nested arrays.
+		let phase = this.phase;
+		for (let c = 0; c < output.length; c++) {
+			const source = input[c] || input[0];
+			const out = output[c];
+			let held = this.held[c];
+			phase = this.phase;
+			for (let i = 0; i < out.length; i++) {
+				phase += advance;
+				if (phase >= 1) {
+					phase -= 1;
+					held = source ? Math.round(source[i] / step) * step : 0;
+				}
+				out[i] = held;
 			}
+			this.held[c] = held;
 		}
+		this.phase = phase;
 		return true;
 	}
 }
