@@ -1,17 +1,10 @@
 // The audio layer's private copy of the rig state, updated path by path from engine changes
 // (`RigChange.path`, e.g. 'racks.0.routes.B'). It only records what the engine decided.
-import { DECK_IDS, PARAM_COUNT, RACK_COUNT, SLOT_COUNT, type RackState, type RigChange, type RigState } from '$lib/engine/types';
+import { initialRack } from '$lib/engine/rig';
+import { DECK_IDS, RACK_COUNT, type RackState, type RigChange, type RigState } from '$lib/engine/types';
 
-export function quietRack(): RackState {
-	return {
-		on: false,
-		mix: 0.5,
-		mode: 'chain',
-		slots: Array.from({ length: SLOT_COUNT }, () => ({ effect: null, on: false, amount: 0.5 })),
-		params: Array.from({ length: PARAM_COUNT }, () => 0.5),
-		routes: { A: false, B: false, C: false, D: false }
-	};
-}
+/** A rack as the engine starts it: off, unrouted, empty slots. */
+export const quietRack: () => RackState = initialRack;
 
 /** Every rack off and unrouted, every deck playing. */
 export function quietRig(): RigState {
