@@ -82,3 +82,44 @@ test('a reload mid-take resumes the recording and loses nothing', async ({ page 
 	expect(velocities).toEqual(Array.from({ length: 10 }, (_, i) => i + 1));
 	expect(session.events).toHaveLength(20);
 });
+
+test('with “record the sound too”, the master output is uploaded with the session', async ({ page }) => {
+	const midi = await installFakeMidi(page, { ports: ONE_CONTROLLER });
+	await openRoom(page, 'Two-deck pad set');
+	await page.getByTestId('start-sound').click();
+	await page.getByRole('button', { name: /I understand/ }).click();
+	await expect(page.getByTestId('room-sound')).toHaveAttribute('data-status', 'running');
+	await page.getByTestId('count-in-toggle').uncheck();
+	await page.getByTestId('capture-audio').check();
+	await page.getByTestId('record-start').click();
+	await expect(page.getByTestId('recorder')).toHaveAttribute('data-status', 'recording');
+	await tap(midi, 0, 4);
+	await expect(page.getByTestId('record-elapsed')).not.toHaveText('0:00.0');
+	await page.waitForFunction(() => document.querySelector('[data-testid="record-elapsed"]')?.textContent?.includes('0:02'));
+	await page.getByTestId('record-stop').click();
+	await expect(page.getByTestId('record-saved')).toBeVisible({ timeout: 20_000 });
+
+	const href = await page.getByTestId('record-replay-link').getAttribute('href');
+	const audio = await page.request.get(`/api${href}/audio`);
+	expect(audio.status()).toBe(200);
+	expect(audio.headers()['content-type']).toMatch(/^audio\/(webm|ogg)/);
+	const bytes = await audio.body();
+	// A WebM file opens with the EBML magic 1A 45 DF A3 (Matroska/WebM container spec); Ogg with "OggS".
+	const magic = bytes.subarray(0, 4).toString('hex');
+	expect(['1a45dfa3', '4f676753']).toContain(magic);
+	expect(bytes.length).toBeGreaterThan(1000);
+
+	// Decoded in the browser, the take is about as long as the recording and not silent (deck A plays its loop).
+	const decoded = await page.evaluate(async (url) => {
+		const data = await (await fetch(url)).arrayBuffer();
+		const buffer = await new OfflineAudioContext(1, 1, 48000).decodeAudioData(data);
+		const samples = buffer.getChannelData(0);
+		let peak = 0;
+		for (const v of samples) peak = Math.max(peak, Math.abs(v));
+		return { seconds: buffer.duration, peak };
+	}, `/api${href}/audio`);
+	expect(decoded.seconds).toBeGreaterThan(1.5);
+	expect(decoded.peak).toBeGreaterThan(0.001);
+	// The master limiter's ceiling is −1 dBFS = 0.891 (DESIGN.md §5); a lossy codec may overshoot a little.
+	expect(decoded.peak).toBeLessThan(1);
+});
