@@ -1,6 +1,6 @@
 // Built-in generic controller profiles, plus the helpers that let any device's profile drive a
 // mapping written for another one (pads matched by grid position).
-import type { ControllerInput, ControllerProfile } from '$lib/engine/types';
+import type { ControllerInput, ControllerProfile, Mapping } from '$lib/engine/types';
 
 /** Pads numbered from the bottom-left, rising left to right then upwards (common practice). */
 function padRows(rows: number, cols: number, firstNote: number, channel = 1): ControllerInput[] {
@@ -85,4 +85,23 @@ export function alignProfile(device: ControllerProfile, mapping: ControllerProfi
 		if (twin) inputs.push({ ...input, id: twin.id, label: twin.label ?? input.label });
 	}
 	return { ...mapping, name: device.name, inputs };
+}
+
+/**
+ * A mapping played from a learned controller: every input of the mapping takes the address
+ * (channel, note or CC, light) the device has at the same grid cell (or, off the grid, the same
+ * id), so the bindings stay as they are. Inputs the device has no counterpart for keep their old
+ * address; `matched` says how many moved.
+ */
+export function withLearnedProfile(mapping: Mapping, device: ControllerProfile): { mapping: Mapping; matched: number } {
+	const aligned = new Map(alignProfile(device, mapping.profile).inputs.map((i) => [i.id, i]));
+	let matched = 0;
+	const inputs = mapping.profile.inputs.map((input) => {
+		const learned = aligned.get(input.id);
+		if (!learned) return input;
+		matched++;
+		const { channel, note, cc, led } = learned;
+		return { ...input, channel, note, cc, led: led ?? input.led };
+	});
+	return { mapping: { ...mapping, profile: { ...mapping.profile, name: device.name, inputs } }, matched };
 }
