@@ -2,7 +2,8 @@
 // a list of engine changes, recorded at the master or at one deck's output. Used for WAV export
 // of a rehearsal and by the browser tests that measure the sound.
 import { OfflineContext, connect, getContext, setContext } from 'tone';
-import { applyEvent, initialRigState } from '$lib/engine/rig';
+import { runEvents } from '$lib/engine/replay';
+import { initialRigState } from '$lib/engine/rig';
 import { DECK_IDS, type DeckId, type InputEvent, type Mapping, type RigChange, type RigState } from '$lib/engine/types';
 import { findLoop } from './loops/patterns';
 import { AudioRig } from './rig';
@@ -84,16 +85,14 @@ async function renderNow(spec: RenderSpec): Promise<Rendered> {
 	return { sampleRate, channels, lookAhead };
 }
 
-/** Runs a session's input events through the engine and collects the changes the rig follows. */
-export function sessionChanges(mapping: Mapping, events: InputEvent[]): { start: RigState; changes: RigChange[] } {
+/**
+ * Runs a session's input events through the engine — the same loop replay uses, so quantized
+ * presses land on the beat grid of `tempo` — and collects the changes the rig follows.
+ */
+export function sessionChanges(mapping: Mapping, events: InputEvent[], tempo?: number): { start: RigState; changes: RigChange[] } {
 	const start = initialRigState(mapping);
-	let state = start;
 	const changes: RigChange[] = [];
-	events.forEach((event, i) => {
-		const result = applyEvent(mapping, state, event, i);
-		state = result.state;
-		changes.push(...result.changes);
-	});
+	runEvents(mapping, events, { tempo, from: start }, (result) => changes.push(...result.changes));
 	return { start, changes };
 }
 
@@ -107,7 +106,7 @@ export interface SessionRender {
 
 /** A mapping + session rendered through the master to a 16-bit WAV file. */
 export async function renderSessionWav({ mapping, events, loops, tempo, tailSeconds = 2 }: SessionRender): Promise<Uint8Array> {
-	const { start, changes } = sessionChanges(mapping, events);
+	const { start, changes } = sessionChanges(mapping, events, tempo);
 	const last = events.reduce((m, e) => Math.max(m, e.t), 0);
 	const decks: RenderSpec['decks'] = {};
 	for (const d of DECK_IDS) if (loops?.[d]) decks[d] = { loop: loops[d] };
