@@ -5,7 +5,7 @@ import { analyze, parseSession, sessionEvents, sessionSchema, type Mapping, type
 import { and, asc, desc, eq, sql } from 'drizzle-orm';
 import { randomUUID } from 'node:crypto';
 import { z } from 'zod';
-import type { Database } from './db';
+import { serialWrite, type Database } from './db';
 import { mappingVersion, rehearsal, rehearsalChunk } from './db/schema';
 import { Refusal } from './http';
 import { getMapping } from './mappings';
@@ -54,7 +54,7 @@ export async function createRehearsal(db: Database, userId: string, input: z.inf
 export async function appendChunk(db: Database, userId: string, id: string, chunk: z.infer<typeof chunkSchema>) {
 	await mine(db, userId, id);
 	const last = chunk.events.at(-1)?.t ?? 0;
-	const stored = await db.transaction(async (tx) => {
+	const stored = await serialWrite(() => db.transaction(async (tx) => {
 		const inserted = await tx
 			.insert(rehearsalChunk)
 			.values({ rehearsalId: id, seq: chunk.seq, events: chunk.events, eventCount: chunk.events.length })
@@ -69,7 +69,7 @@ export async function appendChunk(db: Database, userId: string, id: string, chun
 			})
 			.where(eq(rehearsal.id, id));
 		return true;
-	});
+	}));
 	const [row] = await db.select({ eventCount: rehearsal.eventCount }).from(rehearsal).where(eq(rehearsal.id, id));
 	return { stored, duplicate: !stored, eventCount: row.eventCount };
 }

@@ -15,6 +15,19 @@ export function openDatabase(url = databaseUrl()) {
 
 export type Database = ReturnType<typeof openDatabase>['db'];
 
+let writes: Promise<unknown> = Promise.resolve();
+
+/**
+ * Runs write transactions of this process one after another. SQLite allows one writer at a time;
+ * pooled connections that collide wait in SQLite's busy handler, which sleeps in steps of up to
+ * 100 ms — queueing them here instead keeps a burst of chunk appends fast.
+ */
+export function serialWrite<T>(work: () => Promise<T>): Promise<T> {
+	const run = writes.then(work, work);
+	writes = run.catch(() => undefined);
+	return run;
+}
+
 /** Brings a database up to the newest schema; a local file also gets WAL and a busy timeout. */
 export async function prepareDatabase(client: Client, db: Database, migrationsFolder = 'drizzle') {
 	if (client.protocol === 'file') {
