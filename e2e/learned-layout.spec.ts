@@ -12,17 +12,18 @@ const learned = {
 
 test('a learned layout is saved with the user’s mapping as a new version', async ({ page, baseURL }) => {
 	await page.addInitScript((profile) => localStorage.setItem('padproof.controller-profiles', JSON.stringify([profile])), learned);
-	await signIn(page, 'student');
+	// Lena's own library is used by no other spec.
+	await signIn(page, 'student2');
 	const { mappings } = await (await page.request.get('/api/mappings')).json();
 	const shared = mappings.find((m: { name: string }) => m.name === 'Two-deck pad set');
 	const document = await (await page.request.get(`/api/mappings/${shared.id}?download`)).json();
-	const created = await page.request.post('/api/mappings', { data: { name: 'Kai two-deck', document }, headers: { origin: baseURL! } });
+	const created = await page.request.post('/api/mappings', { data: { name: 'Lena two-deck', document }, headers: { origin: baseURL! } });
 	const { id } = await created.json();
 
 	await open(page, '/controllers');
 	const panel = page.getByTestId('profile-to-mapping');
 	await panel.getByLabel('Learned layout').selectOption('Bench pads');
-	await panel.getByLabel('Your mapping').selectOption({ label: 'Kai two-deck' });
+	await panel.getByLabel('Your mapping').selectOption({ label: 'Lena two-deck' });
 	await panel.getByRole('button', { name: 'Save into mapping' }).click();
 	await expect(panel.getByRole('status')).toContainText('16 inputs moved');
 	await expect(panel.getByRole('status')).toContainText('version 2');
