@@ -77,3 +77,35 @@ test('the admin promotes a student to teacher, who then sees the teaching area',
 	await expect(omar.getByTestId('teaching-area')).toBeVisible();
 	await expect(omar.getByText('kai@mixlab.example')).toBeVisible();
 });
+
+test('a performer changes the password and signs in with the new one only', async ({ page }) => {
+	const email = `ray.${Date.now()}@example.com`;
+	await open(page, '/signup');
+	await page.getByLabel('Name').fill('Ray Okon');
+	await page.getByLabel('Email').fill(email);
+	await page.getByLabel('Password', { exact: true }).fill('first-pass-1');
+	await page.getByLabel('Repeat password').fill('first-pass-1');
+	await page.getByRole('button', { name: 'Create account' }).click();
+	await expect(page).toHaveURL(/\/home$/);
+
+	await open(page, '/account');
+	await page.getByLabel('Current password').fill('not-it-at-all');
+	await page.getByLabel('New password', { exact: true }).fill('second-pass-2');
+	await page.getByLabel('Repeat new password').fill('second-pass-2');
+	await page.getByRole('button', { name: 'Change password' }).click();
+	await expect(page.getByRole('alert')).toContainText('current password is not right');
+
+	await page.getByLabel('Current password').fill('first-pass-1');
+	await page.getByLabel('New password', { exact: true }).fill('second-pass-2');
+	await page.getByLabel('Repeat new password').fill('second-pass-2');
+	await page.getByRole('button', { name: 'Change password' }).click();
+	await expect(page.getByRole('status')).toContainText('Your password is changed.');
+
+	await page.getByRole('button', { name: 'Sign out' }).click();
+	await open(page, '/signin');
+	await page.getByLabel('Email').fill(email);
+	await page.getByLabel('Password').fill('first-pass-1');
+	await page.getByRole('button', { name: 'Sign in' }).click();
+	await expect(page.getByRole('alert')).toContainText('do not match');
+	await signIn(page, email, 'second-pass-2');
+});
