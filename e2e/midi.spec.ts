@@ -1,6 +1,6 @@
 import { expect, test, type Page } from '@playwright/test';
 import { installFakeMidi, ONE_CONTROLLER } from './fake-midi';
-import { signIn } from './support';
+import { signIn, touchScreen } from './support';
 import { importSessionMidi } from '../src/lib/midi/smf';
 
 // Demo two-deck mapping (src/lib/engine/demo.ts): pad-1 = note 36 = Echo A on rack 1,
@@ -85,28 +85,23 @@ test('unplugging a controller mid-hold releases what it held: no stuck effect, l
 test('several on-screen pads held by touch pointers behave like several fingers', async ({ page }) => {
 	await installFakeMidi(page, { ports: [] });
 	await openControllers(page);
-	const cdp = await page.context().newCDPSession(page);
-	const centre = async (id: string) => {
-		const box = (await pad(page, id).boundingBox())!;
-		return { x: box.x + box.width / 2, y: box.y + box.height / 2 };
-	};
-	const a = { ...(await centre('pad-13')), id: 1 };
-	const b = { ...(await centre('pad-14')), id: 2 };
+	const touch = await touchScreen(page);
+	const a = await touch.finger('pad-pad-13', 1);
+	const b = await touch.finger('pad-pad-14', 2);
 
-	await cdp.send('Input.dispatchTouchEvent', { type: 'touchStart', touchPoints: [a] });
-	await cdp.send('Input.dispatchTouchEvent', { type: 'touchStart', touchPoints: [a, b] });
+	await touch.down([a]);
+	await touch.down([a, b]);
 	await expect(pad(page, 'pad-13')).toHaveAttribute('aria-pressed', 'true');
 	await expect(pad(page, 'pad-14')).toHaveAttribute('aria-pressed', 'true');
 	await expect(page.getByTestId('rack-2')).toHaveAttribute('data-audible', 'A');
 
-	// Lift the first finger (CDP: touchEnd lifts the points it lists); the legato row keeps the
-	// stutter on while the other finger is down.
-	await cdp.send('Input.dispatchTouchEvent', { type: 'touchEnd', touchPoints: [a] });
+	// Lift the first finger; the legato row keeps the stutter on while the other finger is down.
+	await touch.up([a]);
 	await expect(pad(page, 'pad-13')).toHaveAttribute('aria-pressed', 'false');
 	await expect(pad(page, 'pad-14')).toHaveAttribute('aria-pressed', 'true');
 	await expect(page.getByTestId('rack-2')).toHaveAttribute('data-audible', 'A');
 
-	await cdp.send('Input.dispatchTouchEvent', { type: 'touchEnd', touchPoints: [b] });
+	await touch.up([b]);
 	await expect(pad(page, 'pad-14')).toHaveAttribute('aria-pressed', 'false');
 	await expect(page.getByTestId('rack-2')).toHaveAttribute('data-audible', 'none');
 	await expect(page.getByTestId('rig-events')).toHaveText('4');

@@ -1,6 +1,6 @@
 import { expect, test, type Page } from '@playwright/test';
 import { installFakeMidi, ONE_CONTROLLER } from './fake-midi';
-import { open, signIn } from './support';
+import { open, signIn, touchScreen } from './support';
 
 // Demo mappings (src/lib/engine/demo.ts): a 4×4 pad profile on channel 1, pad-1 = note 36 rising to
 // pad-16 = note 51; the top row pad-13..pad-16 (notes 48–51) is the stutter row on rack 2, deck A.
@@ -85,31 +85,26 @@ test('the same chord on the two-deck pad set keeps the stutter on: no dropout', 
 test('several on-screen pads held by touch pointers keep a legato row on until the last lifts', async ({ page }) => {
 	await installFakeMidi(page, { ports: [] });
 	await openRoom(page, 'Two-deck pad set');
-	const cdp = await page.context().newCDPSession(page);
-	const centre = async (id: string) => {
-		const box = (await pad(page, id).boundingBox())!;
-		return { x: box.x + box.width / 2, y: box.y + box.height / 2 };
-	};
-	const a = { ...(await centre('pad-13')), id: 1 };
-	const b = { ...(await centre('pad-14')), id: 2 };
-	const c = { ...(await centre('pad-15')), id: 3 };
+	const touch = await touchScreen(page);
+	const a = await touch.finger('pad-pad-13', 1);
+	const b = await touch.finger('pad-pad-14', 2);
+	const c = await touch.finger('pad-pad-15', 3);
 
-	await cdp.send('Input.dispatchTouchEvent', { type: 'touchStart', touchPoints: [a] });
-	await cdp.send('Input.dispatchTouchEvent', { type: 'touchStart', touchPoints: [a, b] });
-	await cdp.send('Input.dispatchTouchEvent', { type: 'touchStart', touchPoints: [a, b, c] });
+	await touch.down([a]);
+	await touch.down([a, b]);
+	await touch.down([a, b, c]);
 	await expect(page.getByTestId('counter-held')).toHaveText('3');
 	await expect(page.getByTestId('held-pads')).toHaveText('Stutter 1/4 · Stutter 1/8 · Stutter 1/16');
 	await expect(page.getByTestId('rack-2')).toHaveAttribute('data-audible', 'A');
 
-	// CDP touchEnd lifts the points it lists.
-	await cdp.send('Input.dispatchTouchEvent', { type: 'touchEnd', touchPoints: [a] });
-	await cdp.send('Input.dispatchTouchEvent', { type: 'touchEnd', touchPoints: [c] });
+	await touch.up([a]);
+	await touch.up([c]);
 	await expect(pad(page, 'pad-14')).toHaveAttribute('aria-pressed', 'true');
 	await expect(page.getByTestId('counter-held')).toHaveText('1');
 	await expect(page.getByTestId('rack-2')).toHaveAttribute('data-audible', 'A');
 	await expect(page.getByTestId('live-finding')).toHaveCount(0);
 
-	await cdp.send('Input.dispatchTouchEvent', { type: 'touchEnd', touchPoints: [b] });
+	await touch.up([b]);
 	await expect(page.getByTestId('rack-2')).toHaveAttribute('data-audible', 'none');
 	await expect(page.getByTestId('counter-held')).toHaveText('0');
 });

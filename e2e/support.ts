@@ -26,3 +26,20 @@ export async function signIn(page: Page, who: keyof typeof DEMO | string, passwo
 	await page.getByRole('button', { name: 'Sign in' }).click();
 	await expect(page.getByTestId('account-menu')).toBeVisible();
 }
+
+/**
+ * Real touch input through Chromium's DevTools protocol, for several fingers at once:
+ * `finger(testid, n)` is a touch point on an element's centre; `down(all)` lists every finger now
+ * down; `up(lifted)` lifts the listed ones (CDP's touchEnd lifts the points it lists).
+ */
+export async function touchScreen(page: Page) {
+	const cdp = await page.context().newCDPSession(page);
+	return {
+		async finger(testid: string, id: number) {
+			const box = (await page.getByTestId(testid).boundingBox())!;
+			return { x: box.x + box.width / 2, y: box.y + box.height / 2, id };
+		},
+		down: (touchPoints: { x: number; y: number; id: number }[]) => cdp.send('Input.dispatchTouchEvent', { type: 'touchStart', touchPoints }),
+		up: (touchPoints: { x: number; y: number; id: number }[]) => cdp.send('Input.dispatchTouchEvent', { type: 'touchEnd', touchPoints })
+	};
+}
