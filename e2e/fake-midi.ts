@@ -148,7 +148,8 @@ function install(options: FakeMidiOptions) {
 export async function installFakeMidi(page: Page, options: FakeMidiOptions = {}) {
 	await page.addInitScript(install, options);
 	return {
-		send: (id: string, bytes: number[]) => page.evaluate(([i, b]) => window.__fakeMidi.send(i, b), [id, bytes] as const),
+		send: (id: string, bytes: number[]) =>
+			page.evaluate(([i, b]) => window.__fakeMidi.send(i, b), [id, bytes] as const),
 		plug: (port: FakePort) => page.evaluate((p) => window.__fakeMidi.plug(p), port),
 		unplug: (id: string) => page.evaluate((i) => window.__fakeMidi.unplug(i), id),
 		sent: (id: string) => page.evaluate((i) => window.__fakeMidi.sent(i), id),

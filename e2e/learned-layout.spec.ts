@@ -7,17 +7,30 @@ const learned = {
 	name: 'Bench pads',
 	rows: 4,
 	cols: 4,
-	inputs: Array.from({ length: 16 }, (_, i) => ({ id: `learned-${i}`, kind: 'pad', channel: 10, note: 60 + i, row: Math.floor(i / 4), col: i % 4 }))
+	inputs: Array.from({ length: 16 }, (_, i) => ({
+		id: `learned-${i}`,
+		kind: 'pad',
+		channel: 10,
+		note: 60 + i,
+		row: Math.floor(i / 4),
+		col: i % 4
+	}))
 };
 
 test('a learned layout is saved with the user’s mapping as a new version', async ({ page, baseURL }) => {
-	await page.addInitScript((profile) => localStorage.setItem('padproof.controller-profiles', JSON.stringify([profile])), learned);
+	await page.addInitScript(
+		(profile) => localStorage.setItem('padproof.controller-profiles', JSON.stringify([profile])),
+		learned
+	);
 	// Lena's own library is used by no other spec.
 	await signIn(page, 'student2');
 	const { mappings } = await (await page.request.get('/api/mappings')).json();
 	const shared = mappings.find((m: { name: string }) => m.name === 'Two-deck pad set');
 	const document = await (await page.request.get(`/api/mappings/${shared.id}?download`)).json();
-	const created = await page.request.post('/api/mappings', { data: { name: 'Lena two-deck', document }, headers: { origin: baseURL! } });
+	const created = await page.request.post('/api/mappings', {
+		data: { name: 'Lena two-deck', document },
+		headers: { origin: baseURL! }
+	});
 	const { id } = await created.json();
 
 	await open(page, '/controllers');

@@ -8,8 +8,14 @@ test('the library lists the shared demo mappings with their check findings', asy
 	const demos = page.getByTestId('mapping-row').filter({ hasText: 'demo' });
 	await expect(demos).toHaveCount(3);
 	// lintMapping finds the broken row's missing held-pad counter; the two good sets check clean.
-	await expect(demos.filter({ hasText: 'Broken stutter row' }).getByTestId('lint-count')).toHaveAttribute('data-count', '1');
-	await expect(demos.filter({ hasText: 'Two-deck pad set' }).getByTestId('lint-count')).toHaveAttribute('data-count', '0');
+	await expect(demos.filter({ hasText: 'Broken stutter row' }).getByTestId('lint-count')).toHaveAttribute(
+		'data-count',
+		'1'
+	);
+	await expect(demos.filter({ hasText: 'Two-deck pad set' }).getByTestId('lint-count')).toHaveAttribute(
+		'data-count',
+		'0'
+	);
 });
 
 test('a bad mapping file gives a readable error and changes nothing', async ({ page }) => {
@@ -28,7 +34,9 @@ test('a bad mapping file gives a readable error and changes nothing', async ({ p
 	await page.locator('html[data-ready]').waitFor();
 	await expect(page.getByTestId('mapping-row')).toHaveCount(before);
 
-	await page.getByTestId('import-mapping').setInputFiles({ name: 'notes.json', mimeType: 'application/json', buffer: Buffer.from('{ not json') });
+	await page
+		.getByTestId('import-mapping')
+		.setInputFiles({ name: 'notes.json', mimeType: 'application/json', buffer: Buffer.from('{ not json') });
 	await expect(page.getByTestId('import-error')).toContainText('notes.json is not a JSON file');
 });
 
@@ -37,7 +45,10 @@ test('an exported mapping imports back as the user’s own copy', async ({ page 
 	const mine = page.getByTestId('mapping-row').filter({ hasText: 'Yours' });
 	const before = await mine.count();
 	const row = page.getByTestId('mapping-row').filter({ hasText: 'Two-deck pad set' }).filter({ hasText: 'demo' });
-	const [download] = await Promise.all([page.waitForEvent('download'), row.getByRole('link', { name: 'Export' }).click()]);
+	const [download] = await Promise.all([
+		page.waitForEvent('download'),
+		row.getByRole('link', { name: 'Export' }).click()
+	]);
 	const path = await download.path();
 	await page.getByTestId('import-mapping').setInputFiles(path!);
 	await expect(page.getByRole('status')).toContainText('imported');
@@ -62,11 +73,19 @@ test('a bad session file gives a readable error and saves nothing', async ({ pag
 			{ t: 100, input: { input: 'pad-1', type: 'release' } }
 		]
 	};
-	await page.getByTestId('import-session').setInputFiles({ name: 'late.session.json', mimeType: 'application/json', buffer: Buffer.from(JSON.stringify(backwards)) });
+	await page.getByTestId('import-session').setInputFiles({
+		name: 'late.session.json',
+		mimeType: 'application/json',
+		buffer: Buffer.from(JSON.stringify(backwards))
+	});
 	await expect(page.getByTestId('import-session-error')).toContainText('time order');
 	await expect(page.getByTestId('import-session-error')).toContainText('Nothing was saved.');
 
-	await page.getByTestId('import-session').setInputFiles({ name: 'cut.mid', mimeType: 'audio/midi', buffer: Buffer.from([0x4d, 0x54, 0x68, 0x64, 0, 0, 0, 6, 0, 1]) });
+	await page.getByTestId('import-session').setInputFiles({
+		name: 'cut.mid',
+		mimeType: 'audio/midi',
+		buffer: Buffer.from([0x4d, 0x54, 0x68, 0x64, 0, 0, 0, 6, 0, 1])
+	});
 	await expect(page.getByTestId('import-session-error')).toContainText('cut.mid could not be read');
 	await page.reload();
 	await page.locator('html[data-ready]').waitFor();

@@ -24,7 +24,9 @@ async function controllerReady(page: Page) {
 
 const pad = (page: Page, id: string) => page.getByTestId(`pad-${id}`);
 
-test('a note from the controller presses the on-screen pad, fires its binding and lights the device', async ({ page }) => {
+test('a note from the controller presses the on-screen pad, fires its binding and lights the device', async ({
+	page
+}) => {
 	const midi = await installFakeMidi(page, { ports: ONE_CONTROLLER });
 	await openControllers(page);
 	await controllerReady(page);
@@ -51,7 +53,10 @@ test('a second controller plugged in mid-session is shown and plays, told apart 
 	await expect(page.getByTestId('device')).toHaveCount(1);
 
 	await midi.plug({ id: 'second-in', name: 'Second Pads', type: 'input' });
-	await expect(page.getByTestId('device').filter({ hasText: 'Second Pads' })).toHaveAttribute('data-state', 'connected');
+	await expect(page.getByTestId('device').filter({ hasText: 'Second Pads' })).toHaveAttribute(
+		'data-state',
+		'connected'
+	);
 
 	await midi.send('second-in', [0x90, 40, 90]);
 	await expect(pad(page, 'pad-5')).toHaveAttribute('aria-pressed', 'true');
@@ -118,7 +123,9 @@ test('without MIDI permission the page explains why and the on-screen pads still
 	await expect(pad(page, 'pad-1')).toHaveAttribute('aria-pressed', 'false');
 });
 
-test('a take saves as a Standard MIDI File, a broken file is refused, and a good one plays the pads', async ({ page }) => {
+test('a take saves as a Standard MIDI File, a broken file is refused, and a good one plays the pads', async ({
+	page
+}) => {
 	await installFakeMidi(page, { ports: [] });
 	await openControllers(page);
 	for (let i = 0; i < 2; i++) {
@@ -143,7 +150,11 @@ test('a take saves as a Standard MIDI File, a broken file is refused, and a good
 	]);
 
 	const picker = page.getByTestId('midi-file-panel').locator('input[type=file]');
-	await picker.setInputFiles({ name: 'cut.mid', mimeType: 'audio/midi', buffer: Buffer.from(bytes.slice(0, bytes.length - 3)) });
+	await picker.setInputFiles({
+		name: 'cut.mid',
+		mimeType: 'audio/midi',
+		buffer: Buffer.from(bytes.slice(0, bytes.length - 3))
+	});
 	await expect(page.getByTestId('midi-file-problem')).toContainText('truncated');
 
 	await picker.setInputFiles({ name: 'take.mid', mimeType: 'audio/midi', buffer: Buffer.from(bytes) });

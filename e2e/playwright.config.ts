@@ -39,7 +39,7 @@ export default defineConfig({
 	outputDir: `../test-results/${port}`,
 	fullyParallel: false,
 	workers: 1,
-	retries: process.env.CI ? 1 : 0,
+	retries: Number(process.env.E2E_RETRIES ?? 0), // local debugging only; CI runs without retries
 	timeout: 60_000,
 	reporter: process.env.CI ? [['list']] : [['list']],
 	use: {
@@ -60,9 +60,7 @@ export default defineConfig({
 		}
 	},
 	webServer: {
-		command: process.env.E2E_DEV
-			? `npx vite dev --port ${port} --strictPort`
-			: 'npm run build && node build',
+		command: process.env.E2E_DEV ? `npx vite dev --port ${port} --strictPort` : 'npm run build && node build',
 		cwd: '..',
 		url: origin,
 		timeout: 240_000,

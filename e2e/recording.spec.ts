@@ -9,7 +9,9 @@ const NOTE_OFF = 0x80;
 
 async function openRoom(page: Page, name: string) {
 	await signIn(page, 'student');
-	const { mappings } = (await (await page.request.get('/api/mappings')).json()) as { mappings: { id: string; name: string }[] };
+	const { mappings } = (await (await page.request.get('/api/mappings')).json()) as {
+		mappings: { id: string; name: string }[];
+	};
 	await open(page, `/rehearse/${mappings.find((m) => m.name === name)!.id}`);
 	await expect(page.getByTestId('midi-status')).toHaveAttribute('data-status', 'ready', { timeout: 15_000 });
 }
@@ -95,7 +97,9 @@ test('with “record the sound too”, the master output is uploaded with the se
 	await expect(page.getByTestId('recorder')).toHaveAttribute('data-status', 'recording');
 	await tap(midi, 0, 4);
 	await expect(page.getByTestId('record-elapsed')).not.toHaveText('0:00.0');
-	await page.waitForFunction(() => document.querySelector('[data-testid="record-elapsed"]')?.textContent?.includes('0:02'));
+	await page.waitForFunction(() =>
+		document.querySelector('[data-testid="record-elapsed"]')?.textContent?.includes('0:02')
+	);
 	await page.getByTestId('record-stop').click();
 	await expect(page.getByTestId('record-saved')).toBeVisible({ timeout: 20_000 });
 

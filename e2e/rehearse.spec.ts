@@ -26,7 +26,8 @@ async function openRoom(page: Page, name: string, waitForMidi = true) {
 		const id = await mappingId(page, name);
 		await open(page, `/rehearse/${id}`);
 		await expect(page.getByTestId('room-mapping')).toContainText(name);
-		if (waitForMidi) await expect(page.getByTestId('midi-status')).toHaveAttribute('data-status', 'ready', { timeout: 10_000 });
+		if (waitForMidi)
+			await expect(page.getByTestId('midi-status')).toHaveAttribute('data-status', 'ready', { timeout: 10_000 });
 	}).toPass({ timeout: 90_000 });
 }
 
@@ -166,7 +167,9 @@ test('record, play, stop: the saved session keeps the MIDI bytes and links to it
 
 	const response = await page.request.get(`/api${href}`);
 	expect(response.ok()).toBe(true);
-	const session = (await response.json()) as { events: { t: number; midi?: number[]; input: { input: string; type: string } | null }[] };
+	const session = (await response.json()) as {
+		events: { t: number; midi?: number[]; input: { input: string; type: string } | null }[];
+	};
 	// Controller events keep their bytes beside the resolved press or release; the keyboard's have none.
 	expect(session.events.map((e) => [e.midi ?? null, e.input?.input, e.input?.type])).toEqual([
 		[[NOTE_ON, 48, 100], 'pad-13', 'press'],

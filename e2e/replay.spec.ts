@@ -31,7 +31,10 @@ async function mappingId(page: Page, name: string): Promise<string> {
 }
 
 async function createSession(page: Page, baseURL: string, mapping: string, name = 'Stutter chord'): Promise<string> {
-	const res = await page.request.post('/api/sessions', { data: { mappingId: mapping, name, session: stutterChord }, headers: { origin: baseURL } });
+	const res = await page.request.post('/api/sessions', {
+		data: { mappingId: mapping, name, session: stutterChord },
+		headers: { origin: baseURL }
+	});
 	expect(res.status(), await res.text()).toBe(201);
 	return ((await res.json()) as { id: string }).id;
 }
@@ -47,7 +50,9 @@ async function timeUnder(page: Page, testid: string, where: 'left' | 'middle'): 
 	const svg = page.getByTestId('timeline-plot').locator('svg');
 	const [box, mark] = await Promise.all([svg.boundingBox(), page.getByTestId(testid).first().boundingBox()]);
 	const attr = async (name: string) => Number(await svg.getAttribute(name));
-	const [start, end, left, width] = await Promise.all(['data-view-start', 'data-view-end', 'data-plot-left', 'data-plot-width'].map(attr));
+	const [start, end, left, width] = await Promise.all(
+		['data-view-start', 'data-view-end', 'data-plot-left', 'data-plot-width'].map(attr)
+	);
 	const x = mark!.x + (where === 'middle' ? mark!.width / 2 : 0);
 	return start + ((x - box!.x - left) / width) * (end - start);
 }
@@ -56,7 +61,10 @@ test.beforeEach(async ({ page }) => {
 	await signIn(page, 'student');
 });
 
-test('the replay places the dropout at the injected release and the jump highlights that release', async ({ page, baseURL }) => {
+test('the replay places the dropout at the injected release and the jump highlights that release', async ({
+	page,
+	baseURL
+}) => {
 	const id = await createSession(page, baseURL!, await mappingId(page, 'Broken stutter row'));
 	await openReplay(page, `/sessions/${id}`);
 
@@ -96,7 +104,9 @@ test('the replay places the dropout at the injected release and the jump highlig
 	expect(Math.abs(drawnAt - RELEASE_13)).toBeLessThanOrEqual(1);
 	const causingAt = await timeUnder(page, 'causing-mark', 'middle');
 	expect(Math.abs(causingAt - RELEASE_13)).toBeLessThanOrEqual(1);
-	console.log(`dropout mark drawn at ${drawnAt.toFixed(3)} ms, causing release at ${causingAt.toFixed(3)} ms (injected ${RELEASE_13} ms)`);
+	console.log(
+		`dropout mark drawn at ${drawnAt.toFixed(3)} ms, causing release at ${causingAt.toFixed(3)} ms (injected ${RELEASE_13} ms)`
+	);
 });
 
 test('replaying against the two-deck set shows no dropout beside the original one', async ({ page, baseURL }) => {
@@ -131,7 +141,9 @@ test('a link with ?t opens the replay with the cursor and the rig at that moment
 	// A click on the plot puts the cursor under the pointer (to the nearest pixel).
 	const svg = page.getByTestId('timeline-plot').locator('svg');
 	const [start, end, left, width] = await Promise.all(
-		['data-view-start', 'data-view-end', 'data-plot-left', 'data-plot-width'].map(async (a) => Number(await svg.getAttribute(a)))
+		['data-view-start', 'data-view-end', 'data-plot-left', 'data-plot-width'].map(async (a) =>
+			Number(await svg.getAttribute(a))
+		)
 	);
 	const msPerPx = (end - start) / width;
 	await svg.click({ position: { x: left + (1800 - start) / msPerPx, y: 120 } });
@@ -160,10 +172,17 @@ test('the session downloads as JSON and as a Standard MIDI File', async ({ page,
 	expect(bytes.subarray(0, 4).toString('latin1')).toBe('MThd');
 });
 
-test('a session whose mapping was deleted still shows its events and replays against another mapping', async ({ page, baseURL }) => {
+test('a session whose mapping was deleted still shows its events and replays against another mapping', async ({
+	page,
+	baseURL
+}) => {
 	const broken = await mappingId(page, 'Broken stutter row');
-	const doc = ((await (await page.request.get(`/api/mappings/${broken}`)).json()) as { mapping: { document: unknown } }).mapping.document;
-	const copy = await page.request.post('/api/mappings', { data: { name: 'Short-lived copy', document: doc }, headers: { origin: baseURL! } });
+	const doc = ((await (await page.request.get(`/api/mappings/${broken}`)).json()) as { mapping: { document: unknown } })
+		.mapping.document;
+	const copy = await page.request.post('/api/mappings', {
+		data: { name: 'Short-lived copy', document: doc },
+		headers: { origin: baseURL! }
+	});
 	expect(copy.status()).toBe(201);
 	const copyId = ((await copy.json()) as { id: string }).id;
 	const id = await createSession(page, baseURL!, copyId, 'Orphaned take');

@@ -38,7 +38,8 @@ async function startServer(): Promise<ChildProcess> {
 	throw new Error('the test server did not start');
 }
 
-const stop = (server: ChildProcess) => new Promise<void>((done) => (server.once('exit', () => done()), server.kill('SIGTERM')));
+const stop = (server: ChildProcess) =>
+	new Promise<void>((done) => (server.once('exit', () => done()), server.kill('SIGTERM')));
 
 async function signedIn(): Promise<APIRequestContext> {
 	const api = await request.newContext({ baseURL: origin, extraHTTPHeaders: { origin } });
@@ -64,7 +65,8 @@ test('a session keeps every event exactly once across a server restart', async (
 		const { mappings } = await (await api.get('/api/mappings')).json();
 		const mappingId = mappings.find((m: { name: string }) => m.name === 'Two-deck pad set').id;
 		const { id } = await (await api.post('/api/sessions', { data: { mappingId, tempo: 120 } })).json();
-		for (const seq of [0, 1, 2]) expect((await api.post(`/api/sessions/${id}/chunks`, { data: chunk(seq) })).ok()).toBe(true);
+		for (const seq of [0, 1, 2])
+			expect((await api.post(`/api/sessions/${id}/chunks`, { data: chunk(seq) })).ok()).toBe(true);
 
 		await stop(server);
 		server = await startServer();
@@ -75,7 +77,9 @@ test('a session keeps every event exactly once across a server restart', async (
 		expect(again).toMatchObject({ duplicate: true, eventCount: 6 });
 		for (const seq of [3, 4]) await api.post(`/api/sessions/${id}/chunks`, { data: chunk(seq) });
 		const session = await (await api.get(`/api/sessions/${id}`)).json();
-		expect(session.events.map((e: { t: number }) => e.t)).toEqual([10, 500, 1010, 1500, 2010, 2500, 3010, 3500, 4010, 4500]);
+		expect(session.events.map((e: { t: number }) => e.t)).toEqual([
+			10, 500, 1010, 1500, 2010, 2500, 3010, 3500, 4010, 4500
+		]);
 	} finally {
 		await stop(server);
 	}

@@ -61,14 +61,26 @@ function rack(patch: Partial<RackState> = {}): RackState {
 }
 
 function focus(effect: EffectId, params: number[], patch: Partial<RackState> = {}): RackState {
-	const r = rack({ on: true, mode: 'focus', mix: 1, params, routes: { A: true, B: false, C: false, D: false }, ...patch });
+	const r = rack({
+		on: true,
+		mode: 'focus',
+		mix: 1,
+		params,
+		routes: { A: true, B: false, C: false, D: false },
+		...patch
+	});
 	r.slots[0] = { effect, on: true, amount: 0.5 };
 	return r;
 }
 
 function rig(first: RackState = rack()): RigState {
 	const playing = { playing: true };
-	return { racks: [first, rack(), rack(), rack()], decks: { A: playing, B: playing, C: playing, D: playing }, counters: {}, held: [] };
+	return {
+		racks: [first, rack(), rack(), rack()],
+		decks: { A: playing, B: playing, C: playing, D: playing },
+		counters: {},
+		held: []
+	};
 }
 
 const click = (at: number): RenderSpec['decks'] => ({ A: { samples: [[1], [1]], samplesAt: at } });
@@ -90,7 +102,13 @@ const ms = (frames: number) => (frames / RATE) * 1000;
 
 test('echo at 1/8 and 128 BPM repeats a click 234.375 ms after it', async () => {
 	const time = paramForDivision('echo', 1, '1/8');
-	const { channels } = await render({ seconds: 1.2, tempo: 128, tap: 'A', decks: click(0.1), state: rig(focus('echo', [time, 0.6, 1], { mix: 0.5 })) });
+	const { channels } = await render({
+		seconds: 1.2,
+		tempo: 128,
+		tap: 'A',
+		decks: click(0.1),
+		state: rig(focus('echo', [time, 0.6, 1], { mix: 0.5 }))
+	});
 	const [direct, first, second] = peaks(channels[0], 0.05, 3);
 	expect(ms(direct)).toBeCloseTo(100, 3);
 	// Tempo arithmetic (REFERENCES.md): 1/8 = 0.125 × 240000 / 128 = 234.375 ms; ±1 ms from the issue.
@@ -101,7 +119,13 @@ test('echo at 1/8 and 128 BPM repeats a click 234.375 ms after it', async () => 
 
 test('equal-power mix at 0.5 puts dry and wet each at 0.7071', async () => {
 	const time = paramForDivision('echo', 1, '1/8');
-	const { channels } = await render({ seconds: 0.6, tempo: 120, tap: 'A', decks: click(0.1), state: rig(focus('echo', [time, 0, 1], { mix: 0.5 })) });
+	const { channels } = await render({
+		seconds: 0.6,
+		tempo: 120,
+		tap: 'A',
+		decks: click(0.1),
+		state: rig(focus('echo', [time, 0, 1], { mix: 0.5 }))
+	});
 	const x = channels[0];
 	const dry = x[Math.round(0.1 * RATE)];
 	const wet = x[Math.round((0.1 + 0.25) * RATE)]; // 1/8 at 120 BPM = 250 ms (tempo arithmetic)
@@ -112,7 +136,13 @@ test('equal-power mix at 0.5 puts dry and wet each at 0.7071', async () => {
 
 test('equal-power mix at 0.25 follows the same law', async () => {
 	const time = paramForDivision('echo', 1, '1/8');
-	const { channels } = await render({ seconds: 0.6, tempo: 120, tap: 'A', decks: click(0.1), state: rig(focus('echo', [time, 0, 1], { mix: 0.25 })) });
+	const { channels } = await render({
+		seconds: 0.6,
+		tempo: 120,
+		tap: 'A',
+		decks: click(0.1),
+		state: rig(focus('echo', [time, 0, 1], { mix: 0.25 }))
+	});
 	const x = channels[0];
 	// Web Audio API equal-power law (derived): cos(π/8) = 0.92388, sin(π/8) = 0.38268.
 	expect(Math.abs(x[Math.round(0.1 * RATE)] - 0.92388)).toBeLessThanOrEqual(0.001);
@@ -121,7 +151,13 @@ test('equal-power mix at 0.25 follows the same law', async () => {
 
 test('ping-pong echo answers left first, then right', async () => {
 	const time = paramForDivision('ping-pong', 1, '1/8');
-	const { channels } = await render({ seconds: 1.3, tempo: 120, tap: 'A', decks: click(0.1), state: rig(focus('ping-pong', [time, 0.6, 1])) });
+	const { channels } = await render({
+		seconds: 1.3,
+		tempo: 120,
+		tap: 'A',
+		decks: click(0.1),
+		state: rig(focus('ping-pong', [time, 0.6, 1]))
+	});
 	const [left, right] = channels.map((c) => peaks(c, 0.02, 2));
 	// Tempo arithmetic: 1/8 at 120 BPM = 250 ms after the click at 100 ms, then every 1/8 the
 	// other side: left 350, right 600, left 850, right 1100 (±1 ms as for the echo).
@@ -239,7 +275,12 @@ test('the limiter keeps the peak at or below −1 dBFS for an input boosted by +
 });
 
 test('the master passes quiet signals unchanged below the limiter', async () => {
-	const { channels } = await render({ seconds: 0.3, tap: 'master', masterDb: 0, decks: { A: { samples: [[0.25], [0.25]], samplesAt: 0.1 } } });
+	const { channels } = await render({
+		seconds: 0.3,
+		tap: 'master',
+		masterDb: 0,
+		decks: { A: { samples: [[0.25], [0.25]], samplesAt: 0.1 } }
+	});
 	expect(Math.abs(channels[0][Math.round(0.1 * RATE)] - 0.25)).toBeLessThan(1e-5);
 });
 

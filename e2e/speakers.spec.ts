@@ -62,8 +62,18 @@ test('the rehearsal room is heard once sound starts', async ({ page }) => {
 test('a replay is heard once its sound is turned on', async ({ page, baseURL }) => {
 	const { mappings } = await (await page.request.get('/api/mappings')).json();
 	const mappingId = mappings.find((m: { name: string }) => m.name === 'Two-deck pad set').id;
-	const session = { version: 1, tempo: 120, startedAt: '2026-12-01T20:00:00.000Z', events: [{ t: 100, input: { input: 'pad-1', type: 'press' } }, { t: 4000, input: { input: 'pad-1', type: 'release' } }] };
-	const { id } = await (await page.request.post('/api/sessions', { data: { mappingId, session }, headers: { origin: baseURL! } })).json();
+	const session = {
+		version: 1,
+		tempo: 120,
+		startedAt: '2026-12-01T20:00:00.000Z',
+		events: [
+			{ t: 100, input: { input: 'pad-1', type: 'press' } },
+			{ t: 4000, input: { input: 'pad-1', type: 'release' } }
+		]
+	};
+	const { id } = await (
+		await page.request.post('/api/sessions', { data: { mappingId, session }, headers: { origin: baseURL! } })
+	).json();
 	await open(page, `/sessions/${id}`);
 	await page.getByTestId('sound-toggle').click();
 	await page.getByRole('button', { name: /I understand/ }).click();

@@ -39,7 +39,9 @@ export async function touchScreen(page: Page) {
 			const box = (await page.getByTestId(testid).boundingBox())!;
 			return { x: box.x + box.width / 2, y: box.y + box.height / 2, id };
 		},
-		down: (touchPoints: { x: number; y: number; id: number }[]) => cdp.send('Input.dispatchTouchEvent', { type: 'touchStart', touchPoints }),
-		up: (touchPoints: { x: number; y: number; id: number }[]) => cdp.send('Input.dispatchTouchEvent', { type: 'touchEnd', touchPoints })
+		down: (touchPoints: { x: number; y: number; id: number }[]) =>
+			cdp.send('Input.dispatchTouchEvent', { type: 'touchStart', touchPoints }),
+		up: (touchPoints: { x: number; y: number; id: number }[]) =>
+			cdp.send('Input.dispatchTouchEvent', { type: 'touchEnd', touchPoints })
 	};
 }

@@ -10,7 +10,11 @@ export class ApiError extends Error {
 	}
 }
 
-export async function api<T>(path: string, init: RequestInit & { body?: BodyInit | null } = {}, json?: unknown): Promise<T> {
+export async function api<T>(
+	path: string,
+	init: RequestInit & { body?: BodyInit | null } = {},
+	json?: unknown
+): Promise<T> {
 	let response: Response;
 	try {
 		response = await fetch(path, {

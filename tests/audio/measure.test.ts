@@ -21,7 +21,7 @@ describe('measurements', () => {
 	it('measures a chopped envelope period between hops', () => {
 		// Gate at 1/8, 120 BPM: 250 ms period (tempo arithmetic); open the first half of each.
 		const noise = M.seededNoise(RATE * 2, 4);
-		const gated = noise.map((v, i) => ((i % 12000) < 6000 ? v : 0));
+		const gated = noise.map((v, i) => (i % 12000 < 6000 ? v : 0));
 		const env = M.centred(M.energyEnvelope(gated, 48));
 		const { lag } = M.autocorrelationPeriod(env, 100, 400, 0, env.length - 400);
 		expect(Math.abs(lag - 250)).toBeLessThan(0.5);

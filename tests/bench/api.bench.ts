@@ -32,14 +32,27 @@ async function signIn(email: string): Promise<string> {
 		body: JSON.stringify({ email, password: 'rehearse-1234' })
 	});
 	if (!r.ok) throw new Error(`sign-in failed: ${r.status}`);
-	return r.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ');
+	return r.headers
+		.getSetCookie()
+		.map((c) => c.split(';')[0])
+		.join('; ');
 }
 
 export default async function (report: (f: Figure) => void) {
 	if (!existsSync('build/index.js')) execFileSync('npx', ['vite', 'build'], { stdio: 'ignore' });
 	const dir = mkdtempSync(join(tmpdir(), 'padproof-api-bench-'));
 	const server = spawn('node', ['build'], {
-		env: { ...process.env, PORT: String(PORT), ORIGIN, BETTER_AUTH_URL: ORIGIN, PADPROOF_DATA_DIR: dir, DATABASE_URL: `file:${dir}/bench.db`, PADPROOF_DEMO: '1', PADPROOF_RATE_LIMIT: 'off', NODE_ENV: 'development' },
+		env: {
+			...process.env,
+			PORT: String(PORT),
+			ORIGIN,
+			BETTER_AUTH_URL: ORIGIN,
+			PADPROOF_DATA_DIR: dir,
+			DATABASE_URL: `file:${dir}/bench.db`,
+			PADPROOF_DEMO: '1',
+			PADPROOF_RATE_LIMIT: 'off',
+			NODE_ENV: 'development'
+		},
 		stdio: 'ignore'
 	});
 	try {
@@ -50,12 +63,26 @@ export default async function (report: (f: Figure) => void) {
 		const latencies: number[] = [];
 		let errors = 0;
 		const client = async () => {
-			const { id } = await (await fetch(`${ORIGIN}/api/sessions`, { method: 'POST', headers, body: JSON.stringify({ mappingId: mappings[0].id, tempo: 120 }) })).json();
+			const { id } = await (
+				await fetch(`${ORIGIN}/api/sessions`, {
+					method: 'POST',
+					headers,
+					body: JSON.stringify({ mappingId: mappings[0].id, tempo: 120 })
+				})
+			).json();
 			for (let seq = 0; seq < CHUNKS; seq++) {
-				const events = Array.from({ length: 20 }, (_, i) => ({ t: seq * 2000 + i * 100, midi: [0x90, 36, 100], input: { input: 'pad-1', type: i % 2 ? 'release' : 'press' } }));
+				const events = Array.from({ length: 20 }, (_, i) => ({
+					t: seq * 2000 + i * 100,
+					midi: [0x90, 36, 100],
+					input: { input: 'pad-1', type: i % 2 ? 'release' : 'press' }
+				}));
 				for (let send = 0; send < (seq % 10 === 9 ? 2 : 1); send++) {
 					const started = performance.now();
-					const r = await fetch(`${ORIGIN}/api/sessions/${id}/chunks`, { method: 'POST', headers, body: JSON.stringify({ seq, events }) });
+					const r = await fetch(`${ORIGIN}/api/sessions/${id}/chunks`, {
+						method: 'POST',
+						headers,
+						body: JSON.stringify({ seq, events })
+					});
 					latencies.push(performance.now() - started);
 					if (!r.ok) errors++;
 					await r.arrayBuffer();

@@ -17,7 +17,11 @@ function rack(deck: 'A' | 'B' | 'C' | 'D', mode: 'chain' | 'focus', effects: Eff
 	return { on: true, mix: 0.5, mode, slots, params: [0.5, 0.5, 0.5], routes };
 }
 
-const off = (): RackState => ({ ...rack('A', 'chain', []), on: false, routes: { A: false, B: false, C: false, D: false } });
+const off = (): RackState => ({
+	...rack('A', 'chain', []),
+	on: false,
+	routes: { A: false, B: false, C: false, D: false }
+});
 const playing = { playing: true };
 const rig = (racks: RackState[]): RigState => ({
 	racks: [...racks, off(), off(), off(), off()].slice(0, 4),
@@ -26,7 +30,12 @@ const rig = (racks: RackState[]): RigState => ({
 	held: []
 });
 
-const decks: RenderSpec['decks'] = { A: { loop: 'glass-steps' }, B: { loop: 'night-bus' }, C: { loop: 'porch-light' }, D: { loop: 'coil-run' } };
+const decks: RenderSpec['decks'] = {
+	A: { loop: 'glass-steps' },
+	B: { loop: 'night-bus' },
+	C: { loop: 'porch-light' },
+	D: { loop: 'coil-run' }
+};
 const cases: [string, RigState][] = [
 	['decks only', rig([])],
 	...EFFECT_IDS.map((e): [string, RigState] => [e, rig([rack('A', 'chain', [e])])]),
@@ -63,7 +72,10 @@ const COUNT_NODES = `
 `;
 
 const { url, server } = await serveHarness();
-const browser = await chromium.launch({ executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium', args: ['--no-sandbox'] });
+const browser = await chromium.launch({
+	executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+	args: ['--no-sandbox']
+});
 try {
 	const page = await browser.newPage();
 	await page.addInitScript({ content: COUNT_NODES });
@@ -72,7 +84,10 @@ try {
 	const run = (state: RigState) =>
 		page.evaluate(
 			async (s) => {
-				const w = window as unknown as { nodeCounts: Record<string, number>; padproofSounds: { render: (s: unknown) => Promise<{ renderMs: number }> } };
+				const w = window as unknown as {
+					nodeCounts: Record<string, number>;
+					padproofSounds: { render: (s: unknown) => Promise<{ renderMs: number }> };
+				};
 				for (const k of Object.keys(w.nodeCounts)) delete w.nodeCounts[k];
 				const { renderMs } = await w.padproofSounds.render(s);
 				const nodes = Object.values(w.nodeCounts).reduce((a, b) => a + b, 0);
@@ -86,7 +101,9 @@ try {
 		for (let i = 0; i < RUNS; i++) runs.push(await run(state));
 		const [a] = runs;
 		const ms = Math.min(...runs.map((r) => r.renderMs)); // the least disturbed run on a shared machine
-		console.log(`${name.padEnd(12)} ${ms.toFixed(0).padStart(6)} ms  ${((SECONDS * 1000) / ms).toFixed(1).padStart(6)}x  nodes ${a.nodes}  ${JSON.stringify(a.counts)}`);
+		console.log(
+			`${name.padEnd(12)} ${ms.toFixed(0).padStart(6)} ms  ${((SECONDS * 1000) / ms).toFixed(1).padStart(6)}x  nodes ${a.nodes}  ${JSON.stringify(a.counts)}`
+		);
 	}
 } finally {
 	await browser.close();

@@ -39,14 +39,20 @@ const spec: RenderSpec = {
 
 export default async function audioBench(report: (f: Figure) => void) {
 	const { url, server } = await serveHarness();
-	const browser = await chromium.launch({ executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium', args: ['--no-sandbox'] });
+	const browser = await chromium.launch({
+		executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+		args: ['--no-sandbox']
+	});
 	try {
 		const page = await browser.newPage();
 		await page.goto(url);
 		await page.waitForFunction(() => document.title === 'ready', null, { timeout: 120_000 });
 		const run = () =>
 			page.evaluate(
-				(s) => (window as unknown as { padproofSounds: { render: (s: unknown) => Promise<{ renderMs: number }> } }).padproofSounds.render(s),
+				(s) =>
+					(
+						window as unknown as { padproofSounds: { render: (s: unknown) => Promise<{ renderMs: number }> } }
+					).padproofSounds.render(s),
 				spec
 			);
 		await run(); // warm-up: module loading and JIT

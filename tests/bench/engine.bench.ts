@@ -15,14 +15,16 @@ import type { Figure } from './run';
  */
 function rehearsal(n: number): InputEvent[] {
 	let seed = 12345;
-	const rand = () => ((seed = (seed * 1103515245 + 12345) & 0x7fffffff) / 0x7fffffff);
+	const rand = () => (seed = (seed * 1103515245 + 12345) & 0x7fffffff) / 0x7fffffff;
 	const held = new Set<string>();
 	const events: InputEvent[] = [];
 	let t = 0;
 	let onePress: string | null = null;
 	while (events.length < n) {
 		const row = rand() < 0.7;
-		const input: string = row ? `pad-${13 + Math.floor(rand() * 4)}` : (onePress ?? `pad-${1 + Math.floor(rand() * 12)}`);
+		const input: string = row
+			? `pad-${13 + Math.floor(rand() * 4)}`
+			: (onePress ?? `pad-${1 + Math.floor(rand() * 12)}`);
 		if (!row) onePress = held.has(input) ? null : input;
 		t += 5 + Math.floor(rand() * 120);
 		events.push({ t, input, type: held.has(input) ? 'release' : 'press' });

@@ -33,7 +33,11 @@ export default async function (report: (f: Figure) => void) {
 	const mapping = demoMapping('two-deck');
 	const decode = createDecoder(mapping.profile);
 	let sent = 0;
-	const lights = new LightFeedback(mapping.profile, { send: () => void sent++ }, { schedule: () => 0, cancel: () => {} });
+	const lights = new LightFeedback(
+		mapping.profile,
+		{ send: () => void sent++ },
+		{ schedule: () => 0, cancel: () => {} }
+	);
 	const stream = messages(220_000);
 
 	let state = initialRigState(mapping);
@@ -57,7 +61,11 @@ export default async function (report: (f: Figure) => void) {
 	}
 	const elapsed = performance.now() - start;
 	per.sort();
-	report({ name: 'midi.message_p99_us', value: Math.round(per[Math.floor(per.length * 0.99)] * 1000 * 10) / 10, unit: 'us' });
+	report({
+		name: 'midi.message_p99_us',
+		value: Math.round(per[Math.floor(per.length * 0.99)] * 1000 * 10) / 10,
+		unit: 'us'
+	});
 	report({ name: 'midi.messages_per_s', value: Math.round(per.length / (elapsed / 1000)), unit: 'messages/s' });
 	if (sent === 0) throw new Error('no light messages were sent: the benchmark measured nothing');
 }

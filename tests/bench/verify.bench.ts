@@ -7,7 +7,15 @@ import type { Figure } from './run';
 
 function row(n: number): Mapping {
 	const pads = Array.from({ length: n }, (_, i) => `pad-${i + 1}`);
-	const r = legatoRow({ pads, rack: 1, effect: 'stutter', variants: pads.map((_, i) => (i + 0.5) / n), counter: 'held', deck: 'A', decks: 2 });
+	const r = legatoRow({
+		pads,
+		rack: 1,
+		effect: 'stutter',
+		variants: pads.map((_, i) => (i + 0.5) / n),
+		counter: 'held',
+		deck: 'A',
+		decks: 2
+	});
 	return {
 		version: 1,
 		name: `legato ${n}`,

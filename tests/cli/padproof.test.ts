@@ -26,7 +26,10 @@ describe('padproof CLI', () => {
 	});
 
 	it('lints a clean mapping with exit 0 and a broken one with exit 1', () => {
-		expect(runCli(['lint', file('good.json', demoMapping('two-deck'))])).toMatchObject({ code: 0, out: 'Two-deck pad set: 0 findings' });
+		expect(runCli(['lint', file('good.json', demoMapping('two-deck'))])).toMatchObject({
+			code: 0,
+			out: 'Two-deck pad set: 0 findings'
+		});
 		const bad = runCli(['lint', file('bad.json', demoMapping('broken-row'))]);
 		expect(bad.code).toBe(1);
 		expect(bad.out).toMatch(/legato-without-counter/);
@@ -41,7 +44,11 @@ describe('padproof CLI', () => {
 		const r = runCli(['verify', file('bad.json', demoMapping('broken-row')), '--group', 'stutter-row', '--json']);
 		expect(r.code).toBe(1);
 		const [g] = JSON.parse(r.out).groups;
-		expect(g.result.counterexample.map((e: { type: string; input: string }) => `${e.type} ${e.input}`)).toEqual(['press pad-13', 'press pad-14', 'release pad-13']);
+		expect(g.result.counterexample.map((e: { type: string; input: string }) => `${e.type} ${e.input}`)).toEqual([
+			'press pad-13',
+			'press pad-14',
+			'release pad-13'
+		]);
 		expect(runCli(['verify', 'demo:two-deck']).out).toBe('stutter-row (4 inputs): proved over 17 states');
 	});
 
@@ -58,7 +65,9 @@ describe('padproof CLI', () => {
 		s.events.splice(1, 0, { t: 1200, midi: [0xb0, 1, 64], input: null }); // an unmapped message
 		const r = runCli(['replay', 'demo:broken-row', file('session.json', s)]);
 		expect(r.code).toBe(1);
-		expect(r.out).toMatch(/dropout +12\.438 s – 13\.000 s {2}event 4: release of Pad 13 at 12\.438 s turned rack 2 off while Pad 14 was held/);
+		expect(r.out).toMatch(
+			/dropout +12\.438 s – 13\.000 s {2}event 4: release of Pad 13 at 12\.438 s turned rack 2 off while Pad 14 was held/
+		);
 		expect(runCli(['replay', 'demo:two-deck', file('session.json', s)]).code).toBe(0);
 	});
 

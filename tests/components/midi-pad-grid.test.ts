@@ -12,7 +12,8 @@ function setup(props: Record<string, unknown> = {}) {
 	return { onpress, onrelease, pad, view };
 }
 
-const down = (el: Element, pointerId: number) => fireEvent.pointerDown(el, { pointerId, pointerType: 'touch', button: 0 });
+const down = (el: Element, pointerId: number) =>
+	fireEvent.pointerDown(el, { pointerId, pointerType: 'touch', button: 0 });
 const up = (pointerId: number) => fireEvent.pointerUp(window, { pointerId, pointerType: 'touch' });
 
 describe('PadGrid', () => {

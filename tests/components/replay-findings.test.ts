@@ -9,7 +9,14 @@ const findings = () => buildReplay(brokenRow(), sessionOf(chord())).findings;
 
 describe('FindingsList', () => {
 	it('says plainly when there are no findings', () => {
-		render(FindingsList, { title: 'Two-deck pad set', subtitle: 'v1', findings: [], selected: null, onSelect: () => {}, testid: 'findings-against' });
+		render(FindingsList, {
+			title: 'Two-deck pad set',
+			subtitle: 'v1',
+			findings: [],
+			selected: null,
+			onSelect: () => {},
+			testid: 'findings-against'
+		});
 		expect(screen.getByTestId('no-findings')).toHaveTextContent('No findings');
 		expect(screen.queryAllByTestId('finding')).toHaveLength(0);
 		expect(screen.getByTestId('finding-count')).toHaveTextContent('0');
@@ -17,7 +24,14 @@ describe('FindingsList', () => {
 
 	it('lists each finding in plain words with its time, and reports a click', async () => {
 		const onSelect = vi.fn();
-		render(FindingsList, { title: 'Broken stutter row', subtitle: 'v1', findings: findings(), selected: null, onSelect, testid: 'findings-original' });
+		render(FindingsList, {
+			title: 'Broken stutter row',
+			subtitle: 'v1',
+			findings: findings(),
+			selected: null,
+			onSelect,
+			testid: 'findings-original'
+		});
 		const item = screen.getByTestId('finding');
 		expect(item).toHaveTextContent('Dropout');
 		expect(item).toHaveTextContent('1.500 s');
@@ -27,7 +41,14 @@ describe('FindingsList', () => {
 	});
 
 	it('marks the selected finding as pressed', () => {
-		render(FindingsList, { title: 'Broken stutter row', subtitle: 'v1', findings: findings(), selected: 0, onSelect: () => {}, testid: 'f' });
+		render(FindingsList, {
+			title: 'Broken stutter row',
+			subtitle: 'v1',
+			findings: findings(),
+			selected: 0,
+			onSelect: () => {},
+			testid: 'f'
+		});
 		expect(screen.getByTestId('finding')).toHaveAttribute('aria-pressed', 'true');
 	});
 });

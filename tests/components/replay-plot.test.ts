@@ -7,11 +7,27 @@ import { brokenRow, chord, sessionOf, twoDeck } from '../replay/factories';
 
 beforeAll(() => {
 	// jsdom has no layout: the plot's width binding needs a ResizeObserver that does nothing.
-	vi.stubGlobal('ResizeObserver', class { observe() {} unobserve() {} disconnect() {} });
+	vi.stubGlobal(
+		'ResizeObserver',
+		class {
+			observe() {}
+			unobserve() {}
+			disconnect() {}
+		}
+	);
 });
 
 function props(model = buildReplay(brokenRow(), sessionOf(chord()))) {
-	return { model, view: fullView(model.duration), cursor: 1200, selected: null, causing: null, onSeek: vi.fn(), onView: vi.fn(), onFinding: vi.fn() };
+	return {
+		model,
+		view: fullView(model.duration),
+		cursor: 1200,
+		selected: null,
+		causing: null,
+		onSeek: vi.fn(),
+		onView: vi.fn(),
+		onFinding: vi.fn()
+	};
 }
 
 describe('TimelinePlot', () => {

@@ -36,16 +36,27 @@ describe('analyze', () => {
 		const b = onePressEffect({ input: 'p1', rack: 2, effect: 'gate', mix: 1, deck: 'A', decks: 2 });
 		b.steps[b.steps.length - 1] = { target: { kind: 'rack-on', rack: 2 }, action: 'set', value: 1 };
 		const f = analyze(mappingWith([b]), [press(100, 'p1'), release(900, 'p1')]);
-		expect(f).toEqual([expect.objectContaining({ kind: 'stuck', start: 900, end: null, event: 1, rack: 2, deck: 'A', input: 'p1' })]);
-		expect(f[0].message).toBe('release of pad 1 at 0.900 s left no pad of pad 1 held, yet rack 2 stays audible on deck A');
+		expect(f).toEqual([
+			expect.objectContaining({ kind: 'stuck', start: 900, end: null, event: 1, rack: 2, deck: 'A', input: 'p1' })
+		]);
+		expect(f[0].message).toBe(
+			'release of pad 1 at 0.900 s left no pad of pad 1 held, yet rack 2 stays audible on deck A'
+		);
 	});
 
 	it('finds a rack audible on a deck the pad does not target: leak', () => {
 		const toB = onePressEffect({ input: 'p1', rack: 1, effect: 'echo', mix: 1, deck: 'B', decks: 2 });
 		const toA = onePressEffect({ input: 'p2', rack: 1, effect: 'echo', mix: 1, deck: 'A', decks: 2 });
 		toA.steps = toA.steps.filter((s) => !(s.target.kind === 'rack-route' && s.target.deck === 'B'));
-		const f = analyze(mappingWith([toB, toA]), [press(0, 'p1'), release(100, 'p1'), press(200, 'p2'), release(300, 'p2')]);
-		expect(f).toEqual([expect.objectContaining({ kind: 'leak', start: 200, end: 300, event: 2, rack: 1, deck: 'B', binding: 1 })]);
+		const f = analyze(mappingWith([toB, toA]), [
+			press(0, 'p1'),
+			release(100, 'p1'),
+			press(200, 'p2'),
+			release(300, 'p2')
+		]);
+		expect(f).toEqual([
+			expect.objectContaining({ kind: 'leak', start: 200, end: 300, event: 2, rack: 1, deck: 'B', binding: 1 })
+		]);
 		expect(f[0].message).toMatch(/press of pad 2 at 0\.200 s left rack 1 audible on deck B, but pad 2 targets deck A/);
 	});
 
@@ -61,14 +72,22 @@ describe('analyze', () => {
 	it('reports a clamped count as a clamp finding', () => {
 		const b: Binding = { input: 'p1', steps: [{ target: { kind: 'counter', counter: 'n' }, action: 'count-up' }] };
 		const f = analyze(mappingWith([b], { counters: [counter('n', 1)] }), [press(0, 'p1'), press(50, 'p1')]);
-		expect(f).toEqual([expect.objectContaining({ kind: 'clamp', start: 50, end: 50, event: 1, counter: 'n', binding: 0 })]);
+		expect(f).toEqual([
+			expect.objectContaining({ kind: 'clamp', start: 50, end: 50, event: 1, counter: 'n', binding: 0 })
+		]);
 		expect(f[0].message).toMatch(/tried to take n to 2, above its max 1/);
 	});
 
 	it('reports two pads on one MIDI address as a clash, once', () => {
 		const inputs = pads(2);
 		inputs[1].note = inputs[0].note;
-		const m = mappingWith([onePressEffect({ input: 'p1', rack: 1, effect: 'echo', mix: 1, deck: 'A', decks: 2 }), { input: 'p2', steps: [] }], { inputs });
+		const m = mappingWith(
+			[
+				onePressEffect({ input: 'p1', rack: 1, effect: 'echo', mix: 1, deck: 'A', decks: 2 }),
+				{ input: 'p2', steps: [] }
+			],
+			{ inputs }
+		);
 		const f = analyze(m, [press(0, 'p1'), release(10, 'p1'), press(20, 'p1')]);
 		expect(f).toEqual([expect.objectContaining({ kind: 'clash', event: 0, input: 'p1' })]);
 		expect(f[0].message).toMatch(/note 36 on channel 1, which pad 2 also answers/);
@@ -85,6 +104,8 @@ describe('analyze', () => {
 	it('explains a pad that never made its rack audible', () => {
 		const b = onePressEffect({ input: 'p1', rack: 1, effect: 'echo', mix: 0, deck: 'A', decks: 2 });
 		const f = analyze(mappingWith([b]), [press(0, 'p1')]);
-		expect(f[0].message).toBe("press of pad 1 at 0.000 s left pad 1 silent on deck A while pad 1 was held: rack 1's mix is at 0");
+		expect(f[0].message).toBe(
+			"press of pad 1 at 0.000 s left pad 1 silent on deck A while pad 1 was held: rack 1's mix is at 0"
+		);
 	});
 });

@@ -11,7 +11,18 @@ import { legatoMapping, mappingWith, press, release } from './factories';
 describe('onePressEffect', () => {
 	const pad = (decks: 2 | 4) =>
 		mappingWith(
-			[onePressEffect({ input: 'p1', rack: 1, effect: 'echo', params: [0.6], mix: 0.8, mode: 'focus', deck: 'A', decks })],
+			[
+				onePressEffect({
+					input: 'p1',
+					rack: 1,
+					effect: 'echo',
+					params: [0.6],
+					mix: 0.8,
+					mode: 'focus',
+					deck: 'A',
+					decks
+				})
+			],
 			{ decks }
 		);
 
@@ -22,7 +33,8 @@ describe('onePressEffect', () => {
 		const m = pad(decks);
 		let s = initialRigState(m);
 		// An earlier pad left the rack on the other decks and in chain mode.
-		for (const d of others) s = { ...s, racks: [{ ...s.racks[0], routes: { ...s.racks[0].routes, [d]: true } }, ...s.racks.slice(1)] };
+		for (const d of others)
+			s = { ...s, racks: [{ ...s.racks[0], routes: { ...s.racks[0].routes, [d]: true } }, ...s.racks.slice(1)] };
 		const r = applyEvent(m, s, press(1000, 'p1'), 0);
 		const rack = r.state.racks[0];
 		expect(rack.slots[0].effect).toBe('echo');
@@ -48,7 +60,17 @@ describe('onePressEffect', () => {
 	});
 
 	it('in chain mode switches the other slots of the rack off', () => {
-		const b = onePressEffect({ input: 'p1', rack: 2, slot: 2, effect: 'filter', amount: 0.3, mix: 1, mode: 'chain', deck: 'B', decks: 2 });
+		const b = onePressEffect({
+			input: 'p1',
+			rack: 2,
+			slot: 2,
+			effect: 'filter',
+			amount: 0.3,
+			mix: 1,
+			mode: 'chain',
+			deck: 'B',
+			decks: 2
+		});
 		const s = applyEvents(mappingWith([b]), [press(0, 'p1')]);
 		expect(s.racks[1].slots.map((x) => x.on)).toEqual([false, true, false]);
 		expect(s.racks[1].slots[1]).toEqual({ effect: 'filter', on: true, amount: 0.3 });
@@ -56,7 +78,9 @@ describe('onePressEffect', () => {
 	});
 
 	it('refuses a focus-mode effect outside slot 1', () => {
-		expect(() => onePressEffect({ input: 'p1', rack: 1, slot: 2, effect: 'echo', mix: 1, mode: 'focus', deck: 'A', decks: 2 })).toThrow(/slot 1/);
+		expect(() =>
+			onePressEffect({ input: 'p1', rack: 1, slot: 2, effect: 'echo', mix: 1, mode: 'focus', deck: 'A', decks: 2 })
+		).toThrow(/slot 1/);
 	});
 
 	it('writes a binding the mapping schema accepts', () => {
@@ -86,18 +110,36 @@ describe('legatoRow', () => {
 	});
 
 	it('takes note divisions for a beat-synced parameter', () => {
-		const row = legatoRow({ pads: ['p1', 'p2'], rack: 1, effect: 'stutter', variants: ['1/4', '1/32'], counter: 'held', deck: 'A', decks: 2 });
+		const row = legatoRow({
+			pads: ['p1', 'p2'],
+			rack: 1,
+			effect: 'stutter',
+			variants: ['1/4', '1/32'],
+			counter: 'held',
+			deck: 'A',
+			decks: 2
+		});
 		const s = applyEvents(mappingWith(row.bindings, { counters: [row.counter] }), [press(0, 'p2')]);
 		expect(s.racks[0].params[0]).toBe(0.875); // the 1/32 band's middle in SLICES (our own choice)
 	});
 
 	it('gives the counter room for every pad of a long row', () => {
 		const ids = Array.from({ length: 20 }, (_, i) => `p${i}`);
-		const row = legatoRow({ pads: ids, rack: 1, effect: 'gate', variants: ids.map(() => 0.5), counter: 'n', deck: 'A', decks: 2 });
+		const row = legatoRow({
+			pads: ids,
+			rack: 1,
+			effect: 'gate',
+			variants: ids.map(() => 0.5),
+			counter: 'n',
+			deck: 'A',
+			decks: 2
+		});
 		expect(row.counter.max).toBe(20);
 	});
 
 	it('needs one variant per pad', () => {
-		expect(() => legatoRow({ pads: ['a', 'b'], rack: 1, effect: 'gate', variants: [0.5], counter: 'n', deck: 'A', decks: 2 })).toThrow();
+		expect(() =>
+			legatoRow({ pads: ['a', 'b'], rack: 1, effect: 'gate', variants: [0.5], counter: 'n', deck: 'A', decks: 2 })
+		).toThrow();
 	});
 });

@@ -9,10 +9,13 @@ describe('demo mappings', () => {
 		expect(DEMO_MAPPINGS.map((d) => d.slug)).toEqual(['two-deck', 'four-deck', 'broken-row']);
 	});
 
-	it.each(DEMO_MAPPINGS.map((d) => [d.slug, d.mapping] as const))('%s survives JSON and the schema unchanged', (_, m) => {
-		const r = parseMapping(JSON.parse(JSON.stringify(m)));
-		expect(r.ok && r.mapping).toEqual(m);
-	});
+	it.each(DEMO_MAPPINGS.map((d) => [d.slug, d.mapping] as const))(
+		'%s survives JSON and the schema unchanged',
+		(_, m) => {
+			const r = parseMapping(JSON.parse(JSON.stringify(m)));
+			expect(r.ok && r.mapping).toEqual(m);
+		}
+	);
 
 	it('lay out 16 pads on notes 36–51, channel 1, bottom-left first, top row 48–51', () => {
 		const inputs = demoMapping('two-deck').profile.inputs;

@@ -1,5 +1,14 @@
 import { describe, expect, it } from 'vitest';
-import { EFFECTS, divisionFraction, divisionFromValue, divisionMs, divisionValue, msPerBeat, nextGridLine, paramForDivision } from '$lib/engine/effects';
+import {
+	EFFECTS,
+	divisionFraction,
+	divisionFromValue,
+	divisionMs,
+	divisionValue,
+	msPerBeat,
+	nextGridLine,
+	paramForDivision
+} from '$lib/engine/effects';
 import { EFFECT_IDS } from '$lib/engine/types';
 
 // Check values: REFERENCES.md "Tempo arithmetic" table (common practice; formula

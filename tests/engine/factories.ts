@@ -14,7 +14,10 @@ export function pads(n: number, channel = 1): ControllerInput[] {
 	}));
 }
 
-export function mappingWith(bindings: Binding[], options: Partial<Mapping> & { inputs?: ControllerInput[] } = {}): Mapping {
+export function mappingWith(
+	bindings: Binding[],
+	options: Partial<Mapping> & { inputs?: ControllerInput[] } = {}
+): Mapping {
 	const { inputs, ...rest } = options;
 	return {
 		version: 1,

@@ -6,7 +6,10 @@ import { brokenRowMapping, counter, legatoMapping, mappingWith, pads } from './f
 
 const echo = (input: string, deck: 'A' | 'B' | 'C' | 'D' = 'A', decks: 2 | 4 = 2) =>
 	onePressEffect({ input, rack: 1, effect: 'echo', params: [0.6], mix: 0.8, deck, decks });
-const without = (b: Binding, drop: (s: Binding['steps'][0]) => boolean): Binding => ({ ...b, steps: b.steps.filter((s) => !drop(s)) });
+const without = (b: Binding, drop: (s: Binding['steps'][0]) => boolean): Binding => ({
+	...b,
+	steps: b.steps.filter((s) => !drop(s))
+});
 
 describe('lintMapping', () => {
 	it('finds nothing in pads built with the builders', () => {
@@ -26,7 +29,16 @@ describe('lintMapping', () => {
 		],
 		[
 			'a pad that routes to its deck but not away from the others (four decks)',
-			() => mappingWith([without(echo('p1', 'A', 4), (s) => s.target.kind === 'rack-route' && s.target.deck !== 'A' && s.target.deck !== 'B')], { decks: 4 }),
+			() =>
+				mappingWith(
+					[
+						without(
+							echo('p1', 'A', 4),
+							(s) => s.target.kind === 'rack-route' && s.target.deck !== 'A' && s.target.deck !== 'B'
+						)
+					],
+					{ decks: 4 }
+				),
 			{ rule: 'partial-route', binding: 0, step: 5, message: /routes rack 1 to deck A but not away from deck C, D/ }
 		],
 		[
@@ -36,13 +48,22 @@ describe('lintMapping', () => {
 		],
 		[
 			'a pad that leaves the mode to whichever pad came before',
-			() => mappingWith([{ input: 'p1', steps: [{ target: { kind: 'rack-on', rack: 1 }, action: 'momentary' }] }, echo('p2')]),
+			() =>
+				mappingWith([
+					{ input: 'p1', steps: [{ target: { kind: 'rack-on', rack: 1 }, action: 'momentary' }] },
+					echo('p2')
+				]),
 			{ rule: 'unset-mode', binding: 0, step: 0, message: /while pad 2 changes that mode/ }
 		],
 		[
 			'a legato group sharing momentary on/off without a counter',
 			() => brokenRowMapping(4),
-			{ rule: 'legato-without-counter', binding: 0, step: 7, message: /the 4 pads of row switch rack 1 on and off as plain momentary steps/ }
+			{
+				rule: 'legato-without-counter',
+				binding: 0,
+				step: 7,
+				message: /the 4 pads of row switch rack 1 on and off as plain momentary steps/
+			}
 		],
 		[
 			'count-up without a count-down on release',
@@ -56,9 +77,23 @@ describe('lintMapping', () => {
 		[
 			'a guard on a counter nothing changes',
 			() =>
-				mappingWith([{ input: 'p1', steps: [{ target: { kind: 'rack-on', rack: 2 }, action: 'momentary', guards: [{ counter: 'page', op: '=', value: 1 }] }] }], {
-					counters: [counter('page')]
-				}),
+				mappingWith(
+					[
+						{
+							input: 'p1',
+							steps: [
+								{
+									target: { kind: 'rack-on', rack: 2 },
+									action: 'momentary',
+									guards: [{ counter: 'page', op: '=', value: 1 }]
+								}
+							]
+						}
+					],
+					{
+						counters: [counter('page')]
+					}
+				),
 			{ rule: 'idle-guard', binding: 0, step: 0, message: /guarded on page, but no step ever changes page/ }
 		],
 		[
@@ -68,11 +103,19 @@ describe('lintMapping', () => {
 				m.bindings[0].steps[0].guards = [{ counter: 'held', op: '>', value: 15 }];
 				return m;
 			},
-			{ rule: 'dead-step', binding: 0, step: 0, message: /can never run: no value of held from 0 to 15 passes held > 15/ }
+			{
+				rule: 'dead-step',
+				binding: 0,
+				step: 0,
+				message: /can never run: no value of held from 0 to 15 passes held > 15/
+			}
 		],
 		[
 			'a toggle set to run on release',
-			() => mappingWith([{ input: 'p1', steps: [{ target: { kind: 'deck-play', deck: 'A' }, action: 'toggle', phase: 'release' }] }]),
+			() =>
+				mappingWith([
+					{ input: 'p1', steps: [{ target: { kind: 'deck-play', deck: 'A' }, action: 'toggle', phase: 'release' }] }
+				]),
 			{ rule: 'dead-step', binding: 0, step: 0, message: /toggles flip on press only/ }
 		],
 		[

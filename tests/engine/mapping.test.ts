@@ -18,7 +18,10 @@ describe('parseMapping', () => {
 	});
 
 	it('refuses something that is not a mapping with one readable problem', () => {
-		expect(parseMapping('hello')).toEqual({ ok: false, problems: [{ path: '(document)', message: 'must be an object' }] });
+		expect(parseMapping('hello')).toEqual({
+			ok: false,
+			problems: [{ path: '(document)', message: 'must be an object' }]
+		});
 	});
 
 	it('names the path and says what is wrong in plain words', () => {
@@ -40,21 +43,92 @@ describe('parseMapping', () => {
 	});
 
 	it.each([
-		['an input nobody declared', (m: any) => (m.bindings[0].input = 'ghost'), 'bindings[0].input', /no input called "ghost"/],
-		['a counter nobody declared', (m: any) => (m.bindings[0].steps[0].target.counter = 'fingers'), 'bindings[0].steps[0].target.counter', /no counter called "fingers"/],
-		['a guard on an unknown counter', (m: any) => (m.bindings[0].steps.at(-1).guards[0].counter = 'x'), 'bindings[0].steps[10].guards[0].counter', /no counter called "x"/],
-		['deck C in a two-deck mapping', (m: any) => (m.bindings[0].deck = 'C'), 'bindings[0].deck', /deck C doesn't exist in a 2-deck mapping/],
-		['a momentary mix', (m: any) => (m.bindings[0].steps[0] = { target: { kind: 'rack-mix', rack: 1 }, action: 'momentary' }), 'bindings[0].steps[0]', /momentary only works on something that switches/],
-		['count-up on a rack', (m: any) => (m.bindings[0].steps[0] = { target: { kind: 'rack-on', rack: 1 }, action: 'count-up' }), 'bindings[0].steps[0]', /only works on a counter/],
-		['a mix above 1', (m: any) => (m.bindings[0].steps[0] = { target: { kind: 'rack-mix', rack: 1 }, action: 'set', value: 1.5 }), 'bindings[0].steps[0]', /from 0 to 1/],
-		['an unknown effect', (m: any) => (m.bindings[0].steps[0] = { target: { kind: 'slot-effect', rack: 1, slot: 1 }, action: 'set', value: 'chorus' }), 'bindings[0].steps[0]', /must be one of|not an effect/],
-		['a route set to 2', (m: any) => (m.bindings[0].steps[0] = { target: { kind: 'rack-route', rack: 1, deck: 'A' }, action: 'set', value: 2 }), 'bindings[0].steps[0]', /0 \(off\) or 1 \(on\)/],
-		['a counter set above its max', (m: any) => (m.bindings[0].steps[0] = { target: { kind: 'counter', counter: 'held' }, action: 'set', value: 99 }), 'bindings[0].steps[0]', /from 0 to 15/],
-		['an on switch with no value', (m: any) => (m.bindings[0].steps[0] = { target: { kind: 'rack-on', rack: 1 }, action: 'set' }), 'bindings[0].steps[0]', /needs a value/],
-		['two inputs with one id', (m: any) => (m.profile.inputs[1].id = 'p1'), 'profile.inputs[1].id', /already called "p1"/],
+		[
+			'an input nobody declared',
+			(m: any) => (m.bindings[0].input = 'ghost'),
+			'bindings[0].input',
+			/no input called "ghost"/
+		],
+		[
+			'a counter nobody declared',
+			(m: any) => (m.bindings[0].steps[0].target.counter = 'fingers'),
+			'bindings[0].steps[0].target.counter',
+			/no counter called "fingers"/
+		],
+		[
+			'a guard on an unknown counter',
+			(m: any) => (m.bindings[0].steps.at(-1).guards[0].counter = 'x'),
+			'bindings[0].steps[10].guards[0].counter',
+			/no counter called "x"/
+		],
+		[
+			'deck C in a two-deck mapping',
+			(m: any) => (m.bindings[0].deck = 'C'),
+			'bindings[0].deck',
+			/deck C doesn't exist in a 2-deck mapping/
+		],
+		[
+			'a momentary mix',
+			(m: any) => (m.bindings[0].steps[0] = { target: { kind: 'rack-mix', rack: 1 }, action: 'momentary' }),
+			'bindings[0].steps[0]',
+			/momentary only works on something that switches/
+		],
+		[
+			'count-up on a rack',
+			(m: any) => (m.bindings[0].steps[0] = { target: { kind: 'rack-on', rack: 1 }, action: 'count-up' }),
+			'bindings[0].steps[0]',
+			/only works on a counter/
+		],
+		[
+			'a mix above 1',
+			(m: any) => (m.bindings[0].steps[0] = { target: { kind: 'rack-mix', rack: 1 }, action: 'set', value: 1.5 }),
+			'bindings[0].steps[0]',
+			/from 0 to 1/
+		],
+		[
+			'an unknown effect',
+			(m: any) =>
+				(m.bindings[0].steps[0] = {
+					target: { kind: 'slot-effect', rack: 1, slot: 1 },
+					action: 'set',
+					value: 'chorus'
+				}),
+			'bindings[0].steps[0]',
+			/must be one of|not an effect/
+		],
+		[
+			'a route set to 2',
+			(m: any) =>
+				(m.bindings[0].steps[0] = { target: { kind: 'rack-route', rack: 1, deck: 'A' }, action: 'set', value: 2 }),
+			'bindings[0].steps[0]',
+			/0 \(off\) or 1 \(on\)/
+		],
+		[
+			'a counter set above its max',
+			(m: any) => (m.bindings[0].steps[0] = { target: { kind: 'counter', counter: 'held' }, action: 'set', value: 99 }),
+			'bindings[0].steps[0]',
+			/from 0 to 15/
+		],
+		[
+			'an on switch with no value',
+			(m: any) => (m.bindings[0].steps[0] = { target: { kind: 'rack-on', rack: 1 }, action: 'set' }),
+			'bindings[0].steps[0]',
+			/needs a value/
+		],
+		[
+			'two inputs with one id',
+			(m: any) => (m.profile.inputs[1].id = 'p1'),
+			'profile.inputs[1].id',
+			/already called "p1"/
+		],
 		['an input with both note and CC', (m: any) => (m.profile.inputs[0].cc = 7), 'profile.inputs[0]', /exactly one/],
 		['a rest value above max', (m: any) => (m.counters[0].rest = 40), 'counters[0].rest', /above the counter's max/],
-		['five guards on one step', (m: any) => (m.bindings[0].steps.at(-1).guards = Array(5).fill({ counter: 'held', op: '=', value: 1 })), 'bindings[0].steps[10].guards', /at most 4/]
+		[
+			'five guards on one step',
+			(m: any) => (m.bindings[0].steps.at(-1).guards = Array(5).fill({ counter: 'held', op: '=', value: 1 })),
+			'bindings[0].steps[10].guards',
+			/at most 4/
+		]
 	])('refuses %s', (_, change, path, message) => {
 		const m = valid();
 		change(m);
@@ -71,7 +145,14 @@ describe('parseMapping', () => {
 	});
 
 	it('returns exactly the shapes of the shared types', () => {
-		const m = mappingWith([{ input: 'p1', intent: 'latched', quantize: '1/8', steps: [{ target: { kind: 'deck-play', deck: 'A' }, action: 'toggle' }] }]);
+		const m = mappingWith([
+			{
+				input: 'p1',
+				intent: 'latched',
+				quantize: '1/8',
+				steps: [{ target: { kind: 'deck-play', deck: 'A' }, action: 'toggle' }]
+			}
+		]);
 		const r = parseMapping(m);
 		expect(r.ok && r.mapping).toEqual(m);
 	});

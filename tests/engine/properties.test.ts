@@ -30,8 +30,16 @@ const play = (ids: string[], maxLength = 60) =>
 const target = fc.oneof(
 	fc.record({ kind: fc.constantFrom('rack-on', 'rack-mode', 'rack-mix'), rack: fc.integer({ min: 1, max: 4 }) }),
 	fc.record({ kind: fc.constant('rack-route'), rack: fc.integer({ min: 1, max: 4 }), deck: fc.constantFrom('A', 'B') }),
-	fc.record({ kind: fc.constantFrom('slot-effect', 'slot-on', 'slot-amount'), rack: fc.integer({ min: 1, max: 4 }), slot: fc.integer({ min: 1, max: 3 }) }),
-	fc.record({ kind: fc.constant('focus-param'), rack: fc.integer({ min: 1, max: 4 }), param: fc.integer({ min: 1, max: 3 }) }),
+	fc.record({
+		kind: fc.constantFrom('slot-effect', 'slot-on', 'slot-amount'),
+		rack: fc.integer({ min: 1, max: 4 }),
+		slot: fc.integer({ min: 1, max: 3 })
+	}),
+	fc.record({
+		kind: fc.constant('focus-param'),
+		rack: fc.integer({ min: 1, max: 4 }),
+		param: fc.integer({ min: 1, max: 3 })
+	}),
 	fc.record({ kind: fc.constant('deck-play'), deck: fc.constantFrom('A', 'B') }),
 	fc.record({ kind: fc.constant('counter'), counter: fc.constantFrom('c1', 'c2') })
 ) as fc.Arbitrary<Step['target']>;
@@ -45,14 +53,26 @@ const step: fc.Arbitrary<Step> = fc
 		n: fc.integer({ min: 0, max: 3 }),
 		effect: fc.constantFrom(null, ...EFFECT_IDS),
 		phase: fc.constantFrom('press', 'release'),
-		guards: fc.array(fc.record({ counter: fc.constantFrom('c1', 'c2'), op: fc.constantFrom('=', '!=', '<', '<=', '>', '>='), value: fc.integer({ min: 0, max: 4 }) }), { maxLength: 2 })
+		guards: fc.array(
+			fc.record({
+				counter: fc.constantFrom('c1', 'c2'),
+				op: fc.constantFrom('=', '!=', '<', '<=', '>', '>='),
+				value: fc.integer({ min: 0, max: 4 })
+			}),
+			{ maxLength: 2 }
+		)
 	})
 	.map(({ target, pick, unit, n, effect, phase, guards }): Step => {
 		const k = target.kind;
 		const base = { target, phase, guards } as const;
-		if (k === 'counter') return pick === 'set' ? { ...base, action: 'set', value: n } : { ...base, action: pick === 'momentary' || pick === 'toggle' ? 'count-up' : pick };
+		if (k === 'counter')
+			return pick === 'set'
+				? { ...base, action: 'set', value: n }
+				: { ...base, action: pick === 'momentary' || pick === 'toggle' ? 'count-up' : pick };
 		if (k === 'rack-on' || k === 'rack-route' || k === 'slot-on' || k === 'deck-play')
-			return pick === 'momentary' || pick === 'toggle' ? { ...base, action: pick } : { ...base, action: 'set', value: n % 2 };
+			return pick === 'momentary' || pick === 'toggle'
+				? { ...base, action: pick }
+				: { ...base, action: 'set', value: n % 2 };
 		if (k === 'rack-mode') return { ...base, action: 'set', value: n % 2 ? 'chain' : 'focus' };
 		if (k === 'slot-effect') return { ...base, action: 'set', value: effect };
 		return { ...base, action: 'set', value: unit };

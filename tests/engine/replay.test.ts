@@ -36,7 +36,10 @@ describe('replay', () => {
 	});
 
 	it('records clamps', () => {
-		const m = mappingWith([{ input: 'p1', steps: [{ target: { kind: 'counter', counter: 'n' }, action: 'count-down' }] }], { counters: [{ id: 'n', max: 3, rest: 0 }] });
+		const m = mappingWith(
+			[{ input: 'p1', steps: [{ target: { kind: 'counter', counter: 'n' }, action: 'count-down' }] }],
+			{ counters: [{ id: 'n', max: 3, rest: 0 }] }
+		);
 		expect(replay(m, [press(10, 'p1')]).clamps).toHaveLength(1);
 	});
 
@@ -66,7 +69,10 @@ describe('replay', () => {
 
 		it('applies an unquantized event that comes before a waiting press first', () => {
 			const m = quantized('1/4');
-			const withPlain = { ...m, bindings: m.bindings.map((b, i) => (i === 1 ? { ...b, quantize: 'off' as const } : b)) };
+			const withPlain = {
+				...m,
+				bindings: m.bindings.map((b, i) => (i === 1 ? { ...b, quantize: 'off' as const } : b))
+			};
 			const t = replay(withPlain, [press(1010, 'p1'), press(1200, 'p2')]);
 			expect(t.order).toEqual([1, 0]);
 			expect(t.changes.find((c) => c.path === 'counters.held')).toMatchObject({ t: 1200, event: 1 });

@@ -87,7 +87,9 @@ describe('applyEvent: one event at a time (DESIGN.md §4.2)', () => {
 		const r = applyEvent(m, initialRigState(m), press(0, 'p1'), 0);
 		expect(r.state.racks[0].mix).toBe(0.9);
 		// A change undone within the same event is no change at all; a path is reported once.
-		expect(r.changes.filter((c) => c.path.startsWith('racks'))).toEqual([{ t: 0, event: 0, path: 'racks.0.mix', from: 0.5, to: 0.9 }]);
+		expect(r.changes.filter((c) => c.path.startsWith('racks'))).toEqual([
+			{ t: 0, event: 0, path: 'racks.0.mix', from: 0.5, to: 0.9 }
+		]);
 	});
 
 	it('stamps every change of one event with its time and index', () => {
@@ -107,7 +109,13 @@ describe('applyEvent: one event at a time (DESIGN.md §4.2)', () => {
 
 	it('keeps the held pads in press order', () => {
 		const m = one([]);
-		const s = applyEvents(mappingWith([{ input: 'p1', steps: [] }, { input: 'p2', steps: [] }]), [press(0, 'p2'), press(1, 'p1'), press(2, 'p2')]);
+		const s = applyEvents(
+			mappingWith([
+				{ input: 'p1', steps: [] },
+				{ input: 'p2', steps: [] }
+			]),
+			[press(0, 'p2'), press(1, 'p1'), press(2, 'p2')]
+		);
 		expect(s.held).toEqual(['p2', 'p1']);
 		expect(applyEvents(m, [release(0, 'p9')]).held).toEqual([]);
 	});
@@ -143,7 +151,13 @@ describe('isAudible (DESIGN.md §4.4)', () => {
 	const m = mappingWith([]);
 	const base = () => {
 		const s = initialRigState(m);
-		const rack = { ...s.racks[0], on: true, mix: 1, routes: { ...s.racks[0].routes, A: true }, slots: s.racks[0].slots.map((x, i) => (i === 1 ? { ...x, effect: 'echo' as const, on: true } : x)) };
+		const rack = {
+			...s.racks[0],
+			on: true,
+			mix: 1,
+			routes: { ...s.racks[0].routes, A: true },
+			slots: s.racks[0].slots.map((x, i) => (i === 1 ? { ...x, effect: 'echo' as const, on: true } : x))
+		};
 		return { ...s, racks: [rack, ...s.racks.slice(1)] };
 	};
 	const tweak = (f: (s: ReturnType<typeof base>) => void) => {

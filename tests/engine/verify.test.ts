@@ -55,14 +55,18 @@ describe('verifyGroup', () => {
 	it('reports progress on long runs and can be cancelled', async () => {
 		const controller = new AbortController();
 		const seen: number[] = [];
-		const r = await verifyGroup(legatoMapping(8), Array.from({ length: 8 }, (_, i) => `p${i + 1}`), {
-			signal: controller.signal,
-			chunk: 10,
-			onProgress: (p) => {
-				seen.push(p.statesExplored);
-				controller.abort();
+		const r = await verifyGroup(
+			legatoMapping(8),
+			Array.from({ length: 8 }, (_, i) => `p${i + 1}`),
+			{
+				signal: controller.signal,
+				chunk: 10,
+				onProgress: (p) => {
+					seen.push(p.statesExplored);
+					controller.abort();
+				}
 			}
-		});
+		);
 		expect(r.status).toBe('cancelled');
 		expect(r.ok).toBe(false);
 		expect(seen.length).toBe(1);
@@ -70,7 +74,11 @@ describe('verifyGroup', () => {
 	});
 
 	it('answers "too big" rather than a false proof when it runs out of room', () => {
-		const r = verifyGroupSync(legatoMapping(8), Array.from({ length: 8 }, (_, i) => `p${i + 1}`), { maxStates: 20 });
+		const r = verifyGroupSync(
+			legatoMapping(8),
+			Array.from({ length: 8 }, (_, i) => `p${i + 1}`),
+			{ maxStates: 20 }
+		);
 		expect(r).toMatchObject({ ok: false, status: 'too-big' });
 	});
 

@@ -70,7 +70,10 @@ describe('decoding with a profile (DESIGN.md §4.1)', () => {
 
 	it('turns a Note Off into a release whatever its velocity', () => {
 		// MIDI 1.0: Note Off 0x8n with a release velocity.
-		expect(decode4x4([0x80, 51, 64], 0)).toMatchObject({ status: 'event', event: { input: 'pad-16', type: 'release' } });
+		expect(decode4x4([0x80, 51, 64], 0)).toMatchObject({
+			status: 'event',
+			event: { input: 'pad-16', type: 'release' }
+		});
 	});
 
 	it('tells inputs apart by channel as well as note', () => {
@@ -96,7 +99,10 @@ describe('decoding with a profile (DESIGN.md §4.1)', () => {
 		[63, 'release'],
 		[0, 'release']
 	])('reads a CC button at value %i as a %s', (value, type) => {
-		expect(decodeMessage([0xb0, 20, value], ccButton, 0)).toMatchObject({ status: 'event', event: { input: 'shift', type } });
+		expect(decodeMessage([0xb0, 20, value], ccButton, 0)).toMatchObject({
+			status: 'event',
+			event: { input: 'shift', type }
+		});
 	});
 
 	it.each([

@@ -7,7 +7,14 @@ const learned = {
 	rows: 4,
 	cols: 4,
 	// A device whose pads send notes 60–75 on channel 10, counted from the top-left.
-	inputs: Array.from({ length: 16 }, (_, i) => ({ id: `learned-${i}`, kind: 'pad' as const, channel: 10, note: 60 + i, row: Math.floor(i / 4), col: i % 4 }))
+	inputs: Array.from({ length: 16 }, (_, i) => ({
+		id: `learned-${i}`,
+		kind: 'pad' as const,
+		channel: 10,
+		note: 60 + i,
+		row: Math.floor(i / 4),
+		col: i % 4
+	}))
 };
 
 describe('withLearnedProfile', () => {
@@ -17,7 +24,12 @@ describe('withLearnedProfile', () => {
 		expect(matched).toBe(16);
 		expect(mapping.bindings).toEqual(before.bindings);
 		// pad-13 sits top-left (row 0, col 0) in the demo grid; the device sends note 60 there.
-		expect(mapping.profile.inputs.find((i) => i.id === 'pad-13')).toMatchObject({ channel: 10, note: 60, row: 0, col: 0 });
+		expect(mapping.profile.inputs.find((i) => i.id === 'pad-13')).toMatchObject({
+			channel: 10,
+			note: 60,
+			row: 0,
+			col: 0
+		});
 		// pad-1 sits bottom-left (row 3, col 0): the device's note 72.
 		expect(mapping.profile.inputs.find((i) => i.id === 'pad-1')).toMatchObject({ channel: 10, note: 72 });
 		expect(parseMapping(mapping).ok).toBe(true);
@@ -28,7 +40,9 @@ describe('withLearnedProfile', () => {
 		const before = demoMapping('two-deck');
 		const { mapping, matched } = withLearnedProfile(before, small);
 		expect(matched).toBe(4);
-		expect(mapping.profile.inputs.find((i) => i.id === 'pad-1')).toEqual(before.profile.inputs.find((i) => i.id === 'pad-1'));
+		expect(mapping.profile.inputs.find((i) => i.id === 'pad-1')).toEqual(
+			before.profile.inputs.find((i) => i.id === 'pad-1')
+		);
 	});
 
 	it('plays a 4×4 mapping from the top-left block of a larger grid', () => {

@@ -9,19 +9,23 @@ function harness(profile: ControllerProfile = GENERIC_4X4, intervalMs = 10) {
 	let now = 0;
 	const timers: { at: number; run: () => void; id: number }[] = [];
 	let nextId = 1;
-	const lights = new LightFeedback(profile, { send: (b) => sent.push(b) }, {
-		intervalMs,
-		now: () => now,
-		schedule: (run, ms) => {
-			const id = nextId++;
-			timers.push({ at: now + ms, run, id });
-			return id;
-		},
-		cancel: (id) => {
-			const i = timers.findIndex((t) => t.id === id);
-			if (i >= 0) timers.splice(i, 1);
+	const lights = new LightFeedback(
+		profile,
+		{ send: (b) => sent.push(b) },
+		{
+			intervalMs,
+			now: () => now,
+			schedule: (run, ms) => {
+				const id = nextId++;
+				timers.push({ at: now + ms, run, id });
+				return id;
+			},
+			cancel: (id) => {
+				const i = timers.findIndex((t) => t.id === id);
+				if (i >= 0) timers.splice(i, 1);
+			}
 		}
-	});
+	);
 	const advance = (ms: number) => {
 		now += ms;
 		for (const t of timers.filter((t) => t.at <= now)) {

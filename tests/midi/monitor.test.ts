@@ -23,7 +23,11 @@ describe('MidiMonitorLog', () => {
 			[2, 'cc', 'B0 07 40'],
 			[1, 'note', '90 24 64']
 		]);
-		expect(log.entries[2]).toMatchObject({ input: 'pad-1', inputLabel: 'Pad 1', summary: 'Note On ch 1 · note 36 vel 100' });
+		expect(log.entries[2]).toMatchObject({
+			input: 'pad-1',
+			inputLabel: 'Pad 1',
+			summary: 'Note On ch 1 · note 36 vel 100'
+		});
 		expect(log.entries[0].problem).toContain('needs 3 bytes');
 	});
 
@@ -60,13 +64,22 @@ describe('SavedProfiles', () => {
 
 	it('saves a learned profile and reads it back', () => {
 		const storage = memoryStorage();
-		const profile = { name: 'Learned', rows: 1, cols: 1, inputs: [{ id: 'pad-1', kind: 'pad' as const, channel: 2, note: 60, row: 0, col: 0 }] };
+		const profile = {
+			name: 'Learned',
+			rows: 1,
+			cols: 1,
+			inputs: [{ id: 'pad-1', kind: 'pad' as const, channel: 2, note: 60, row: 0, col: 0 }]
+		};
 		expect(new SavedProfiles(storage).save(profile)).toBe(true);
 		expect(new SavedProfiles(storage).list).toEqual([profile]);
 	});
 
 	it('skips stored profiles that fail the schema, and refuses to save one', () => {
-		const storage = memoryStorage({ 'padproof.controller-profiles': JSON.stringify([{ name: 'x', inputs: [{ id: 'a', kind: 'pad', channel: 99, note: 1 }] }]) });
+		const storage = memoryStorage({
+			'padproof.controller-profiles': JSON.stringify([
+				{ name: 'x', inputs: [{ id: 'a', kind: 'pad', channel: 99, note: 1 }] }
+			])
+		});
 		const saved = new SavedProfiles(storage);
 		expect(saved.list).toEqual([]);
 		expect(saved.save({ name: 'bad', inputs: [{ id: 'a', kind: 'pad', channel: 0, note: 1 }] })).toBe(false);

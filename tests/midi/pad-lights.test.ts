@@ -29,7 +29,12 @@ describe('litInputs', () => {
 		// Demo two-deck: pads 13–16 are the stutter row on rack 2, deck A, with the held counter.
 		const held = applyEvents(twoDeck, [press(0, 'pad-13'), press(5, 'pad-14'), release(10, 'pad-13')]);
 		expect(litInputs(twoDeck, held).has('pad-14')).toBe(true);
-		const done = applyEvents(twoDeck, [press(0, 'pad-13'), press(5, 'pad-14'), release(10, 'pad-13'), release(20, 'pad-14')]);
+		const done = applyEvents(twoDeck, [
+			press(0, 'pad-13'),
+			press(5, 'pad-14'),
+			release(10, 'pad-13'),
+			release(20, 'pad-14')
+		]);
 		expect([...litInputs(twoDeck, done)]).toEqual([]);
 	});
 });

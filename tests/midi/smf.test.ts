@@ -2,14 +2,23 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { writeMidi } from 'midi-file';
 import { Midi } from '@tonejs/midi';
-import { exportSessionFile, exportSessionMidi, importSessionFile, importSessionMidi, TICKS_PER_QUARTER } from '$lib/midi/smf';
+import {
+	exportSessionFile,
+	exportSessionMidi,
+	importSessionFile,
+	importSessionMidi,
+	TICKS_PER_QUARTER
+} from '$lib/midi/smf';
 import { parseSession, sessionFromEvents } from '$lib/engine';
 import { GENERIC_2X8_KNOBS, GENERIC_4X4 } from '$lib/midi/profiles';
 import type { InputEvent } from '$lib/engine/types';
 
-const hex = (s: string) => s.trim().split(/[\s|]+/).map((b) => parseInt(b, 16));
-const contains = (hay: Uint8Array, needle: number[]) =>
-	hay.some((_, i) => needle.every((b, k) => hay[i + k] === b));
+const hex = (s: string) =>
+	s
+		.trim()
+		.split(/[\s|]+/)
+		.map((b) => parseInt(b, 16));
+const contains = (hay: Uint8Array, needle: number[]) => hay.some((_, i) => needle.every((b, k) => hay[i + k] === b));
 
 // Standard MIDI Files 1.0 (RP-001), appendix example: format 0, division 96 (REFERENCES.md).
 const APPENDIX_EXAMPLE = hex(`
@@ -46,7 +55,10 @@ describe('export', () => {
 	it('ends every track with End of Track FF 2F 00', () => {
 		// SMF 1.0: End of Track is required as the last event of each track.
 		const { bytes } = exportSessionMidi(session, GENERIC_4X4);
-		const ends = bytes.reduce((n, _, i) => n + (bytes[i] === 0xff && bytes[i + 1] === 0x2f && bytes[i + 2] === 0 ? 1 : 0), 0);
+		const ends = bytes.reduce(
+			(n, _, i) => n + (bytes[i] === 0xff && bytes[i + 1] === 0x2f && bytes[i + 2] === 0 ? 1 : 0),
+			0
+		);
 		expect(ends).toBe(2);
 	});
 
@@ -159,7 +171,9 @@ describe('import', () => {
 	it('never throws on a valid file with random bytes overwritten or cut off', () => {
 		fc.assert(
 			fc.property(
-				fc.array(fc.tuple(fc.nat({ max: APPENDIX_EXAMPLE.length - 1 }), fc.integer({ min: 0, max: 255 })), { maxLength: 6 }),
+				fc.array(fc.tuple(fc.nat({ max: APPENDIX_EXAMPLE.length - 1 }), fc.integer({ min: 0, max: 255 })), {
+					maxLength: 6
+				}),
 				fc.nat({ max: APPENDIX_EXAMPLE.length }),
 				(edits, cut) => {
 					const bytes = APPENDIX_EXAMPLE.slice(0, cut);
@@ -214,14 +228,23 @@ describe('round trip', () => {
 
 describe('cross-check with @tonejs/midi', () => {
 	it('reads our export to the same notes, ticks, tempo and resolution', () => {
-		const events = [press(0, 'pad-1'), press(125, 'pad-6'), release(500, 'pad-1'), release(1000, 'pad-6'), press(1500, 'pad-16'), release(1750, 'pad-16')];
+		const events = [
+			press(0, 'pad-1'),
+			press(125, 'pad-6'),
+			release(500, 'pad-1'),
+			release(1000, 'pad-6'),
+			press(1500, 'pad-16'),
+			release(1750, 'pad-16')
+		];
 		const { bytes } = exportSessionMidi(events, GENERIC_4X4, { bpm: 120 });
 		const ours = importSessionMidi(bytes);
 		if (!ours.ok) throw new Error(ours.error);
 		const theirs = new Midi(bytes);
 		expect(theirs.header.ppq).toBe(480);
 		expect(theirs.header.tempos[0].bpm).toBeCloseTo(120, 6);
-		const tn = theirs.tracks.flatMap((t) => t.notes).map((n) => ({ note: n.midi, on: n.ticks, off: n.ticks + n.durationTicks, ms: n.time * 1000 }));
+		const tn = theirs.tracks
+			.flatMap((t) => t.notes)
+			.map((n) => ({ note: n.midi, on: n.ticks, off: n.ticks + n.durationTicks, ms: n.time * 1000 }));
 		const presses = ours.notes.filter((n) => n.kind === 'press');
 		const on = presses.map((p) => ({
 			note: p.number,

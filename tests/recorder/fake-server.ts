@@ -9,7 +9,8 @@ export function fakeServer() {
 		if (!online) throw new TypeError('Failed to fetch');
 		const url = String(input);
 		const body = init?.body ? JSON.parse(String(init.body)) : null;
-		const reply = (status: number, data: unknown) => new Response(JSON.stringify(data), { status, headers: { 'content-type': 'application/json' } });
+		const reply = (status: number, data: unknown) =>
+			new Response(JSON.stringify(data), { status, headers: { 'content-type': 'application/json' } });
 		if (url === '/api/sessions' && init?.method === 'POST') {
 			const id = `s${sessions.size + 1}`;
 			sessions.set(id, { chunks: new Map(), finished: false, name: body.name ?? 'Take' });

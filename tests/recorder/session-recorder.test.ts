@@ -39,7 +39,11 @@ function recorderFor(server: ReturnType<typeof fakeServer>, storeName: string) {
 	return recorder;
 }
 
-const press = (t: number, pad = 'pad-1') => ({ t, midi: [0x90, 36, 100], input: { input: pad, type: 'press' as const } });
+const press = (t: number, pad = 'pad-1') => ({
+	t,
+	midi: [0x90, 36, 100],
+	input: { input: pad, type: 'press' as const }
+});
 
 describe('ChunkQueue', () => {
 	it('keeps chunks that could not be sent and sends them in order, once, later', async () => {
@@ -144,11 +148,13 @@ describe('SessionRecorder', () => {
 		const server = fakeServer();
 		const recorder = recorderFor(server, `rec-${++stores}`);
 		await recorder.start();
-		await server.fetch('/api/sessions/s1/chunks', { method: 'POST', body: JSON.stringify({ seq: 0, events: [press(5)] }) });
+		await server.fetch('/api/sessions/s1/chunks', {
+			method: 'POST',
+			body: JSON.stringify({ seq: 0, events: [press(5)] })
+		});
 		recorder.record(press(5));
 		await recorder.stop();
 		expect(server.events('s1')).toHaveLength(1);
 		expect(server.posts).toBe(2);
 	});
 });
-

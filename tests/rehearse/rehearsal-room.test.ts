@@ -92,8 +92,14 @@ describe('RehearsalRoom', () => {
 		const { room, press, release } = roomFor(mapping);
 		await room.start();
 		const script: [string, 'press' | 'release', number][] = [
-			['pad-13', 'press', 0], ['pad-14', 'press', 50], ['pad-13', 'release', 90], ['pad-15', 'press', 120],
-			['pad-14', 'release', 160], ['pad-1', 'press', 200], ['pad-15', 'release', 240], ['pad-1', 'release', 300]
+			['pad-13', 'press', 0],
+			['pad-14', 'press', 50],
+			['pad-13', 'release', 90],
+			['pad-15', 'press', 120],
+			['pad-14', 'release', 160],
+			['pad-1', 'press', 200],
+			['pad-15', 'release', 240],
+			['pad-1', 'release', 300]
 		];
 		for (const [input, type, t] of script) (type === 'press' ? press : release)(input, t);
 		const events: InputEvent[] = script.map(([input, type, t]) => ({ t, input, type }));

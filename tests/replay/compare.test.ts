@@ -18,7 +18,11 @@ const finding = (kind: Finding['kind']): Finding => ({
 describe('compareFindings', () => {
 	it('says the fix worked when every finding is gone', () => {
 		const c = compareFindings([finding('dropout')], []);
-		expect([c.summary, c.verdict, c.kinds]).toEqual(['1 finding → 0 findings', 'fixed', [{ kind: 'dropout', before: 1, after: 0 }]]);
+		expect([c.summary, c.verdict, c.kinds]).toEqual([
+			'1 finding → 0 findings',
+			'fixed',
+			[{ kind: 'dropout', before: 1, after: 0 }]
+		]);
 	});
 
 	it.each([

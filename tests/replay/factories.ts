@@ -8,7 +8,12 @@ export const press = (t: number, input: string): InputEvent => ({ t, input, type
 export const release = (t: number, input: string): InputEvent => ({ t, input, type: 'release' });
 
 /** Two fingers on the stutter row (pad-13, pad-14); the first lifts while the second is down. */
-export const chord = (): InputEvent[] => [press(1000, 'pad-13'), press(1200, 'pad-14'), release(1500.25, 'pad-13'), release(2000, 'pad-14')];
+export const chord = (): InputEvent[] => [
+	press(1000, 'pad-13'),
+	press(1200, 'pad-14'),
+	release(1500.25, 'pad-13'),
+	release(2000, 'pad-14')
+];
 
 export function sessionOf(events: InputEvent[], extra: SessionDocument['events'] = []): SessionDocument {
 	const all = [...events.map(({ t, ...input }) => ({ t, input })), ...extra].sort((a, b) => a.t - b.t);

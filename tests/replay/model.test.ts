@@ -25,7 +25,9 @@ describe('buildReplay', () => {
 
 	it('gives the silenced rack its audible lane, cut at the release', () => {
 		const model = buildReplay(brokenRow(), sessionOf(chord()));
-		expect(model.audible.map((a) => [a.rack, a.deck, a.intervals.map((i) => [i.start, i.end])])).toEqual([[2, 'A', [[1000, 1500.25]]]]);
+		expect(model.audible.map((a) => [a.rack, a.deck, a.intervals.map((i) => [i.start, i.end])])).toEqual([
+			[2, 'A', [[1000, 1500.25]]]
+		]);
 	});
 
 	it('steps the held counter up and down with the fingers, scaled to its peak', () => {
@@ -67,7 +69,9 @@ describe('buildReplay', () => {
 
 describe('padLanes', () => {
 	it('leaves a span open when its pad is never released', () => {
-		expect(padLanes(null, [press(10, 'a')])[0].spans).toEqual([{ start: 10, end: null, pressEvent: 0, releaseEvent: null }]);
+		expect(padLanes(null, [press(10, 'a')])[0].spans).toEqual([
+			{ start: 10, end: null, pressEvent: 0, releaseEvent: null }
+		]);
 	});
 
 	it('ignores a release with no press before it', () => {

@@ -1,5 +1,15 @@
 import { describe, expect, it } from 'vitest';
-import { beatGrid, fullView, MIN_SPAN, msAt, panView, revealView, timeTicks, xOf, zoomView } from '$lib/replay/plot-scale';
+import {
+	beatGrid,
+	fullView,
+	MIN_SPAN,
+	msAt,
+	panView,
+	revealView,
+	timeTicks,
+	xOf,
+	zoomView
+} from '$lib/replay/plot-scale';
 
 describe('zoom and pan', () => {
 	it('keeps the moment under the anchor in place when zooming', () => {
@@ -10,7 +20,9 @@ describe('zoom and pan', () => {
 	});
 
 	it('never zooms in past the smallest span nor out past the whole session', () => {
-		expect(zoomView({ start: 0, end: 100 }, 0.01, 50, 4000).end - zoomView({ start: 0, end: 100 }, 0.01, 50, 4000).start).toBe(MIN_SPAN);
+		expect(
+			zoomView({ start: 0, end: 100 }, 0.01, 50, 4000).end - zoomView({ start: 0, end: 100 }, 0.01, 50, 4000).start
+		).toBe(MIN_SPAN);
 		expect(zoomView({ start: 1000, end: 2000 }, 100, 1500, 4000)).toEqual(fullView(4000));
 	});
 
@@ -52,6 +64,8 @@ describe('beatGrid', () => {
 
 describe('timeTicks', () => {
 	it('labels round times at least the gap apart', () => {
-		expect(timeTicks({ start: 0, end: 2500 }, 1000, 80)).toEqual([0, 200, 400, 600, 800, 1000, 1200, 1400, 1600, 1800, 2000, 2200, 2400]);
+		expect(timeTicks({ start: 0, end: 2500 }, 1000, 80)).toEqual([
+			0, 200, 400, 600, 800, 1000, 1200, 1400, 1600, 1800, 2000, 2200, 2400
+		]);
 	});
 });

@@ -44,14 +44,19 @@ describe('RigSnapshots', () => {
 
 	it('counts an event landing exactly at the cursor as landed', () => {
 		const snaps = new RigSnapshots(twoDeck(), [press(1000, 'pad-13'), release(1500.25, 'pad-13')], 124);
-		expect([snaps.countAt(999.99), snaps.countAt(1000), snaps.countAt(1500.24), snaps.countAt(1500.25)]).toEqual([0, 1, 1, 2]);
+		expect([snaps.countAt(999.99), snaps.countAt(1000), snaps.countAt(1500.24), snaps.countAt(1500.25)]).toEqual([
+			0, 1, 1, 2
+		]);
 		expect(snaps.stateAt(1200).held).toEqual(['pad-13']);
 		expect(snaps.stateAt(1500.25).held).toEqual([]);
 	});
 
 	it('places a quantized press at its grid line, as the engine lands it', () => {
 		const demo = twoDeck();
-		const mapping = { ...demo, bindings: demo.bindings.map((b) => (b.input === 'pad-1' ? { ...b, quantize: '1/4' as const } : b)) };
+		const mapping = {
+			...demo,
+			bindings: demo.bindings.map((b) => (b.input === 'pad-1' ? { ...b, quantize: '1/4' as const } : b))
+		};
 		// 120 BPM: beats every 500 ms, so a press at 1100 ms lands at 1500 ms (common practice: 60 000 ms / BPM per beat).
 		const snaps = new RigSnapshots(mapping, [press(1100, 'pad-1'), press(1200, 'pad-5')], 120);
 		expect(snaps.at).toEqual([1200, 1500]);

@@ -25,7 +25,9 @@ describe('database module', () => {
 	it('creates the file in a missing folder and applies every migration', async () => {
 		const tables = await handle.client.execute("select name from sqlite_master where type = 'table' order by name");
 		const names = tables.rows.map((r) => r.name);
-		expect(names).toEqual(expect.arrayContaining(['user', 'session', 'account', 'verification', '__drizzle_migrations']));
+		expect(names).toEqual(
+			expect.arrayContaining(['user', 'session', 'account', 'verification', '__drizzle_migrations'])
+		);
 	});
 
 	it('puts a local file in WAL mode with a busy timeout', async () => {

@@ -1,6 +1,13 @@
 import { demoMapping } from '$lib/engine';
 import { Refusal } from '$lib/server/http';
-import { createMapping, deleteMapping, getMapping, listMappings, saveVersion, seedDemoMappings } from '$lib/server/mappings';
+import {
+	createMapping,
+	deleteMapping,
+	getMapping,
+	listMappings,
+	saveVersion,
+	seedDemoMappings
+} from '$lib/server/mappings';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { demoDatabase } from './factories';
 

@@ -1,7 +1,14 @@
 import { padId, type SessionEvent } from '$lib/engine';
 import { openDatabase } from '$lib/server/db';
 import { listMappings } from '$lib/server/mappings';
-import { appendChunk, createRehearsal, finishRehearsal, importSession, listRehearsals, sessionDocument } from '$lib/server/rehearsals';
+import {
+	appendChunk,
+	createRehearsal,
+	finishRehearsal,
+	importSession,
+	listRehearsals,
+	sessionDocument
+} from '$lib/server/rehearsals';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { demoDatabase } from './factories';
 
@@ -10,8 +17,16 @@ beforeEach(async () => (t = await demoDatabase()));
 afterEach(() => t.close());
 
 const demoId = async (name: string) => (await listMappings(t.db, t.kai)).find((m) => m.name === name)!.id;
-const press = (t: number, pad: number): SessionEvent => ({ t, midi: [0x90, 35 + pad, 100], input: { input: padId(pad), type: 'press' } });
-const release = (t: number, pad: number): SessionEvent => ({ t, midi: [0x80, 35 + pad, 0], input: { input: padId(pad), type: 'release' } });
+const press = (t: number, pad: number): SessionEvent => ({
+	t,
+	midi: [0x90, 35 + pad, 100],
+	input: { input: padId(pad), type: 'press' }
+});
+const release = (t: number, pad: number): SessionEvent => ({
+	t,
+	midi: [0x80, 35 + pad, 0],
+	input: { input: padId(pad), type: 'release' }
+});
 
 describe('recording a session in chunks', () => {
 	it('stores a resent chunk once', async () => {
@@ -52,7 +67,10 @@ describe('recording a session in chunks', () => {
 		// Broken stutter row (top row pads 13–16): press 13, press 14, release 13 cuts the effect
 		// while 14 is held — the dropout the held-pad counter exists to prevent (common practice).
 		const { id } = await createRehearsal(t.db, t.kai, { mappingId: await demoId('Broken stutter row'), tempo: 120 });
-		await appendChunk(t.db, t.kai, id, { seq: 0, events: [press(1000, 13), press(1200, 14), release(1500, 13), release(1800, 14)] });
+		await appendChunk(t.db, t.kai, id, {
+			seq: 0,
+			events: [press(1000, 13), press(1200, 14), release(1500, 13), release(1800, 14)]
+		});
 		expect(await finishRehearsal(t.db, t.kai, id, 'Chord test')).toEqual({ findings: 1 });
 		const [row] = await listRehearsals(t.db, t.kai, 'chord');
 		expect(row).toMatchObject({ status: 'saved', findingCount: 1, eventCount: 4, name: 'Chord test' });
@@ -63,7 +81,10 @@ describe('importing a session document', () => {
 	it('refuses a bad file with a readable reason and stores nothing', async () => {
 		const mappingId = await demoId('Two-deck pad set');
 		const bad = { version: 1, tempo: 120, startedAt: '2026-12-01T20:00:00Z', events: [press(500, 1), release(100, 1)] };
-		await expect(importSession(t.db, t.kai, mappingId, bad)).rejects.toMatchObject({ status: 400, message: expect.stringMatching(/time order/) });
+		await expect(importSession(t.db, t.kai, mappingId, bad)).rejects.toMatchObject({
+			status: 400,
+			message: expect.stringMatching(/time order/)
+		});
 		expect(await listRehearsals(t.db, t.kai)).toEqual([]);
 	});
 

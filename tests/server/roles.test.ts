@@ -49,6 +49,13 @@ describe('requireArea', () => {
 
 describe('isRole', () => {
 	it('knows exactly the three roles', () => {
-		expect(['admin', 'teacher', 'student', 'owner', '', null].map(isRole)).toEqual([true, true, true, false, false, false]);
+		expect(['admin', 'teacher', 'student', 'owner', '', null].map(isRole)).toEqual([
+			true,
+			true,
+			true,
+			false,
+			false,
+			false
+		]);
 	});
 });

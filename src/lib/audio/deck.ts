@@ -25,7 +25,10 @@ export class DeckChannel {
 		readonly clock: BeatClock
 	) {
 		const joints = [this.#play, ...this.#joints, this.output];
-		this.inserts = Array.from({ length: RACK_COUNT }, (_, i) => new RackInsert(i + 1, deck, clock, joints[i], joints[i + 1]));
+		this.inserts = Array.from(
+			{ length: RACK_COUNT },
+			(_, i) => new RackInsert(i + 1, deck, clock, joints[i], joints[i + 1])
+		);
 	}
 
 	get loop(): DemoLoop | null {

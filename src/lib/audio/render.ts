@@ -62,13 +62,21 @@ async function renderNow(spec: RenderSpec): Promise<Rendered> {
 	setContext(context);
 	let lookAhead: number;
 	try {
-		const rig = await AudioRig.create({ tempo: spec.tempo ?? 120, state: spec.state ?? quietRig(), lookAhead: spec.lookAhead });
+		const rig = await AudioRig.create({
+			tempo: spec.tempo ?? 120,
+			state: spec.state ?? quietRig(),
+			lookAhead: spec.lookAhead
+		});
 		lookAhead = rig.lookAhead;
 		rig.master.setLevel(spec.masterDb ?? 0, 0);
 		for (const d of DECK_IDS) {
 			const setup = spec.decks?.[d];
 			if (setup?.loop) rig.setLoop(d, findLoop(setup.loop), 0);
-			if (setup?.samples) rig.decks[d].playSamples(setup.samples.map((c) => Float32Array.from(c)), setup.samplesAt ?? 0);
+			if (setup?.samples)
+				rig.decks[d].playSamples(
+					setup.samples.map((c) => Float32Array.from(c)),
+					setup.samplesAt ?? 0
+				);
 			rig.decks[d].setLevel(setup?.levelDb ?? 0, 0);
 		}
 		for (const { t, bpm } of spec.tempoChanges ?? []) rig.setTempo(bpm, rig.timeOf(t));
@@ -89,7 +97,11 @@ async function renderNow(spec: RenderSpec): Promise<Rendered> {
  * Runs a session's input events through the engine — the same loop replay uses, so quantized
  * presses land on the beat grid of `tempo` — and collects the changes the rig follows.
  */
-export function sessionChanges(mapping: Mapping, events: InputEvent[], tempo?: number): { start: RigState; changes: RigChange[] } {
+export function sessionChanges(
+	mapping: Mapping,
+	events: InputEvent[],
+	tempo?: number
+): { start: RigState; changes: RigChange[] } {
 	const start = initialRigState(mapping);
 	const changes: RigChange[] = [];
 	runEvents(mapping, events, { tempo, from: start }, (result) => changes.push(...result.changes));
@@ -105,7 +117,13 @@ export interface SessionRender {
 }
 
 /** A mapping + session rendered through the master to a 16-bit WAV file. */
-export async function renderSessionWav({ mapping, events, loops, tempo, tailSeconds = 2 }: SessionRender): Promise<Uint8Array> {
+export async function renderSessionWav({
+	mapping,
+	events,
+	loops,
+	tempo,
+	tailSeconds = 2
+}: SessionRender): Promise<Uint8Array> {
 	const { start, changes } = sessionChanges(mapping, events, tempo);
 	const last = events.reduce((m, e) => Math.max(m, e.t), 0);
 	const decks: RenderSpec['decks'] = {};

@@ -37,12 +37,18 @@ export class AudioRig {
 		return within(context, () => new AudioRig(context, options));
 	}
 
-	private constructor(context: BaseContext, { tempo = 120, origin = 0, lookAhead = LOOK_AHEAD, state = quietRig() }: AudioRigOptions) {
+	private constructor(
+		context: BaseContext,
+		{ tempo = 120, origin = 0, lookAhead = LOOK_AHEAD, state = quietRig() }: AudioRigOptions
+	) {
 		this.context = context;
 		this.origin = origin;
 		this.lookAhead = lookAhead;
 		this.clock = new BeatClock(tempo, origin);
-		this.decks = Object.fromEntries(DECK_IDS.map((d) => [d, new DeckChannel(d, this.clock)])) as Record<DeckId, DeckChannel>;
+		this.decks = Object.fromEntries(DECK_IDS.map((d) => [d, new DeckChannel(d, this.clock)])) as Record<
+			DeckId,
+			DeckChannel
+		>;
 		for (const d of DECK_IDS) this.decks[d].output.connect(this.master.input);
 		this.#state = structuredClone(state);
 		this.sync(this.#state, origin);

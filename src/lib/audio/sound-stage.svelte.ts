@@ -28,7 +28,13 @@ export class SoundStage {
 	loops = $state<Record<DeckId, string | null>>({ A: 'glass-steps', B: null, C: null, D: null });
 	playing = $state<Record<DeckId, boolean>>({ A: true, B: false, C: false, D: false });
 	levels = $state<Record<DeckId, number>>({ A: 0, B: 0, C: 0, D: 0 });
-	audition = $state<Audition>({ effect: 'echo', deck: 'A', mix: 0.5, params: EFFECTS.echo.params.map((p) => p.default), on: false });
+	audition = $state<Audition>({
+		effect: 'echo',
+		deck: 'A',
+		mix: 0.5,
+		params: EFFECTS.echo.params.map((p) => p.default),
+		on: false
+	});
 	#rig: AudioRig | null = null;
 	#frame = 0;
 

@@ -46,7 +46,12 @@ function readText(file: string): string {
 	try {
 		return readFileSync(file, 'utf8');
 	} catch (e) {
-		throw new Unreadable(file, [{ path: '(file)', message: (e as NodeJS.ErrnoException).code === 'ENOENT' ? 'does not exist' : (e as Error).message }]);
+		throw new Unreadable(file, [
+			{
+				path: '(file)',
+				message: (e as NodeJS.ErrnoException).code === 'ENOENT' ? 'does not exist' : (e as Error).message
+			}
+		]);
 	}
 }
 
@@ -105,7 +110,10 @@ function lint(a: Args): CliResult {
 	const findings = lintMapping(mapping);
 	const code = findings.length ? 1 : 0;
 	if (a.json) return { code, out: json({ mapping: mapping.name, findings }), err: '' };
-	const lines = findings.map((f) => `  ${f.rule.padEnd(24)} binding ${f.binding + 1}${f.step !== null ? `, step ${f.step + 1}` : ''}: ${f.message}`);
+	const lines = findings.map(
+		(f) =>
+			`  ${f.rule.padEnd(24)} binding ${f.binding + 1}${f.step !== null ? `, step ${f.step + 1}` : ''}: ${f.message}`
+	);
 	return { code, out: [`${mapping.name}: ${count(findings.length, 'finding')}`, ...lines].join('\n'), err: '' };
 }
 
@@ -123,7 +131,8 @@ function verify(a: Args): CliResult {
 	}
 	const code = results.some((r) => !r.result.ok) ? 1 : 0;
 	if (a.json) return { code, out: json({ mapping: mapping.name, groups: results }), err: '' };
-	if (!results.length) return { code, out: `${mapping.name}: no legato groups to verify (name inputs with --inputs)`, err: '' };
+	if (!results.length)
+		return { code, out: `${mapping.name}: no legato groups to verify (name inputs with --inputs)`, err: '' };
 	const out = results.flatMap(({ group, inputs, result: r }) => {
 		const head = `${group} (${inputs.length} inputs): `;
 		if (r.ok) return [`${head}proved over ${r.statesExplored} states`];
@@ -147,8 +156,20 @@ function replayCommand(a: Args): CliResult {
 	const findings: Finding[] = analyze(mapping, events, options).map((f) => ({ ...f, event: indexes[f.event] }));
 	const code = findings.length ? 1 : 0;
 	if (a.json)
-		return { code, out: json({ mapping: mapping.name, events: session.events.length, findings, audible: timeline.audible, clamps: timeline.clamps.length }), err: '' };
-	const lines = findings.map((f) => `  ${f.kind.padEnd(8)} ${ms(f.start)} – ${ms(f.end)}  event ${f.event + 1}: ${f.message}`);
+		return {
+			code,
+			out: json({
+				mapping: mapping.name,
+				events: session.events.length,
+				findings,
+				audible: timeline.audible,
+				clamps: timeline.clamps.length
+			}),
+			err: ''
+		};
+	const lines = findings.map(
+		(f) => `  ${f.kind.padEnd(8)} ${ms(f.start)} – ${ms(f.end)}  event ${f.event + 1}: ${f.message}`
+	);
 	const head = `${mapping.name}: ${session.events.length} events, ${count(timeline.audible.length, 'audible stretch', 'audible stretches')}, ${count(findings.length, 'finding')}`;
 	return { code, out: [head, ...lines].join('\n'), err: '' };
 }

@@ -6,7 +6,17 @@
 // was held".
 import { runEvents, type ReplayOptions } from './replay';
 import { initialRigState, isAudible } from './rig';
-import { conditions, initialWatch, inputName, observe, rulesFor, touchedRacks, type Condition, type Rules, type WatchState } from './watch';
+import {
+	conditions,
+	initialWatch,
+	inputName,
+	observe,
+	rulesFor,
+	touchedRacks,
+	type Condition,
+	type Rules,
+	type WatchState
+} from './watch';
 import type { Clamp, DeckId, Finding, InputEvent, Mapping, RigChange, RigState } from './types';
 
 export const seconds = (ms: number) => `${(ms / 1000).toFixed(3)} s`;
@@ -41,10 +51,21 @@ export function whySilent(s: RigState, rack: number, deck: DeckId): string {
 	if (!r.routes[deck]) return `rack ${rack} isn't routed to deck ${deck}`;
 	if (!s.decks[deck].playing) return `deck ${deck} isn't playing`;
 	if (!(r.mix > 0)) return `rack ${rack}'s mix is at 0`;
-	return r.mode === 'focus' ? `rack ${rack}'s focus effect isn't chosen and on` : `no slot of rack ${rack} is on with an effect`;
+	return r.mode === 'focus'
+		? `rack ${rack}'s focus effect isn't chosen and on`
+		: `no slot of rack ${rack} is on with an effect`;
 }
 
-function message(m: Mapping, rules: Rules, c: Condition, e: InputEvent, at: number, s: RigState, before: RigState, changes: RigChange[]): string {
+function message(
+	m: Mapping,
+	rules: Rules,
+	c: Condition,
+	e: InputEvent,
+	at: number,
+	s: RigState,
+	before: RigState,
+	changes: RigChange[]
+): string {
 	const by = cause(m, e, at);
 	if (c.kind === 'dropout') {
 		const u = rules.units[c.unit];
@@ -78,7 +99,9 @@ function clampMessage(m: Mapping, e: InputEvent, cl: Clamp): string {
 function clashMessage(m: Mapping, rules: Rules, e: InputEvent, at: number): string {
 	const others = rules.clashInputs.get(e.input)!;
 	const input = m.profile.inputs.find((i) => i.id === e.input);
-	const addr = input ? (input.note !== undefined ? `note ${input.note}` : `CC ${input.cc}`) + ` on channel ${input.channel}` : 'its address';
+	const addr = input
+		? (input.note !== undefined ? `note ${input.note}` : `CC ${input.cc}`) + ` on channel ${input.channel}`
+		: 'its address';
 	const who = others[0] === e.input ? 'two bindings of this pad' : list(others.map((o) => inputName(m, o)));
 	return `${cause(m, e, at)} sounded ${addr}, which ${who} also answer${others.length > 1 || others[0] === e.input ? '' : 's'}`;
 }
@@ -105,45 +128,69 @@ export function analyze(mapping: Mapping, events: readonly InputEvent[], options
 	const lastSeen = new Map<string, number>();
 	let stamp = 0;
 	let watch: WatchState = initialWatch(rules);
-	runEvents(mapping, events, { ...options, from: options.from ?? initialRigState(mapping) }, (result, prior, index, at) => {
-		const e = events[index];
-		const addr = rules.addressOf.get(e.input);
-		if (rules.clashInputs.has(e.input) && e.type !== 'release' && addr && !clashed.has(addr)) {
-			clashed.add(addr);
-			findings.push({ kind: 'clash', start: at, end: at, event: index, ...blank, input: e.input, binding: mapping.bindings.findIndex((b) => b.input === e.input), message: clashMessage(mapping, rules, e, at) });
-		}
-		for (const cl of result.clamps)
-			findings.push({ kind: 'clamp', start: at, end: at, event: index, ...blank, input: e.input, binding: cl.binding, counter: cl.counter, message: clampMessage(mapping, e, cl) });
-		const seen = watch;
-		watch = observe(rules, watch, e.input, e.type, touchedRacks(result.changes));
-		// Same state and same watch: the same conditions hold, nothing opens or closes.
-		if (!result.changes.length && watch === seen) return;
-		const now = conditions(rules, result.state, watch);
-		stamp++;
-		for (const c of now) {
-			lastSeen.set(c.key, stamp);
-			if (open.has(c.key)) continue;
-			const binding = unitBinding(mapping, rules, c, e.input, result.state);
-			const f: Finding = {
-				kind: c.kind,
-				start: at,
-				end: null,
-				event: index,
-				binding,
-				input: binding !== null && binding >= 0 ? mapping.bindings[binding].input : null,
-				deck: c.deck,
-				rack: c.rack,
-				counter: c.counter,
-				message: message(mapping, rules, c, e, at, result.state, prior, result.changes)
-			};
-			open.set(c.key, f);
-			findings.push(f);
-		}
-		for (const [key, f] of open)
-			if (lastSeen.get(key) !== stamp) {
-				f.end = at;
-				open.delete(key);
+	runEvents(
+		mapping,
+		events,
+		{ ...options, from: options.from ?? initialRigState(mapping) },
+		(result, prior, index, at) => {
+			const e = events[index];
+			const addr = rules.addressOf.get(e.input);
+			if (rules.clashInputs.has(e.input) && e.type !== 'release' && addr && !clashed.has(addr)) {
+				clashed.add(addr);
+				findings.push({
+					kind: 'clash',
+					start: at,
+					end: at,
+					event: index,
+					...blank,
+					input: e.input,
+					binding: mapping.bindings.findIndex((b) => b.input === e.input),
+					message: clashMessage(mapping, rules, e, at)
+				});
 			}
-	});
+			for (const cl of result.clamps)
+				findings.push({
+					kind: 'clamp',
+					start: at,
+					end: at,
+					event: index,
+					...blank,
+					input: e.input,
+					binding: cl.binding,
+					counter: cl.counter,
+					message: clampMessage(mapping, e, cl)
+				});
+			const seen = watch;
+			watch = observe(rules, watch, e.input, e.type, touchedRacks(result.changes));
+			// Same state and same watch: the same conditions hold, nothing opens or closes.
+			if (!result.changes.length && watch === seen) return;
+			const now = conditions(rules, result.state, watch);
+			stamp++;
+			for (const c of now) {
+				lastSeen.set(c.key, stamp);
+				if (open.has(c.key)) continue;
+				const binding = unitBinding(mapping, rules, c, e.input, result.state);
+				const f: Finding = {
+					kind: c.kind,
+					start: at,
+					end: null,
+					event: index,
+					binding,
+					input: binding !== null && binding >= 0 ? mapping.bindings[binding].input : null,
+					deck: c.deck,
+					rack: c.rack,
+					counter: c.counter,
+					message: message(mapping, rules, c, e, at, result.state, prior, result.changes)
+				};
+				open.set(c.key, f);
+				findings.push(f);
+			}
+			for (const [key, f] of open)
+				if (lastSeen.get(key) !== stamp) {
+					f.end = at;
+					open.delete(key);
+				}
+		}
+	);
 	return findings;
 }

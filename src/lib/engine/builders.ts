@@ -38,9 +38,7 @@ const set = (target: Step['target'], value: Step['value'], extra: Partial<Step> 
 
 /** Route the rack to `deck` and away from every other deck of the mapping. */
 function routeSteps(rack: number, deck: DeckId, decks: 2 | 4, extra: Partial<Step> = {}): Step[] {
-	return DECK_IDS.slice(0, decks).map((d) =>
-		set({ kind: 'rack-route', rack, deck: d }, d === deck ? 1 : 0, extra)
-	);
+	return DECK_IDS.slice(0, decks).map((d) => set({ kind: 'rack-route', rack, deck: d }, d === deck ? 1 : 0, extra));
 }
 
 /** Everything but switching the rack on: mode, effect, slots, parameters, mix, routing. */
@@ -57,8 +55,7 @@ function setupSteps(o: Omit<OnePressOptions, 'input'>): Step[] {
 	];
 	// A chain left with other slots on by an earlier pad would play their effects too.
 	if (mode === 'chain')
-		for (let s = 1; s <= SLOT_COUNT; s++)
-			if (s !== slot) steps.push(set({ kind: 'slot-on', rack, slot: s }, 0));
+		for (let s = 1; s <= SLOT_COUNT; s++) if (s !== slot) steps.push(set({ kind: 'slot-on', rack, slot: s }, 0));
 	if (o.amount !== undefined) steps.push(set({ kind: 'slot-amount', rack, slot }, o.amount));
 	o.params?.forEach((v, i) => {
 		if (v !== undefined) steps.push(set({ kind: 'focus-param', rack, param: i + 1 }, v));

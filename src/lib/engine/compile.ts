@@ -57,8 +57,7 @@ function build(mapping: Mapping): CompiledMapping {
 	const stepsByInput = new Map<string, CompiledStep[]>();
 	const quantizeByInput = new Map<string, Exclude<Quantize, 'off'>>();
 	mapping.bindings.forEach((b, bi) => {
-		if (b.quantize && b.quantize !== 'off' && !quantizeByInput.has(b.input))
-			quantizeByInput.set(b.input, b.quantize);
+		if (b.quantize && b.quantize !== 'off' && !quantizeByInput.has(b.input)) quantizeByInput.set(b.input, b.quantize);
 		const list = stepsByInput.get(b.input) ?? [];
 		stepsByInput.set(b.input, list);
 		b.steps.forEach((s, si) => {

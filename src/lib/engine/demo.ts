@@ -152,7 +152,8 @@ export const DEMO_MAPPINGS: readonly DemoMapping[] = [
 	{
 		slug: 'two-deck',
 		title: 'Two-deck pad set',
-		summary: 'One-press echo, reverb, filter, gate, crush and flanger pads for decks A and B, and a legato stutter row.',
+		summary:
+			'One-press echo, reverb, filter, gate, crush and flanger pads for decks A and B, and a legato stutter row.',
 		mapping: twoDeck()
 	},
 	{

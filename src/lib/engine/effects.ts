@@ -59,21 +59,13 @@ export const EFFECTS: Record<EffectId, EffectInfo> = {
 		id: 'ping-pong',
 		label: 'Ping-pong echo',
 		amount: 'feedback',
-		params: [
-			beats('time', 'Time', ECHO_TIMES, '1/8'),
-			knob('feedback', 'Feedback', 0.4),
-			knob('width', 'Width', 1)
-		]
+		params: [beats('time', 'Time', ECHO_TIMES, '1/8'), knob('feedback', 'Feedback', 0.4), knob('width', 'Width', 1)]
 	},
 	'tape-echo': {
 		id: 'tape-echo',
 		label: 'Tape echo',
 		amount: 'feedback',
-		params: [
-			beats('time', 'Time', ECHO_TIMES, '1/8.'),
-			knob('feedback', 'Feedback', 0.5),
-			knob('wear', 'Wear', 0.3)
-		]
+		params: [beats('time', 'Time', ECHO_TIMES, '1/8.'), knob('feedback', 'Feedback', 0.5), knob('wear', 'Wear', 0.3)]
 	},
 	reverb: {
 		id: 'reverb',
@@ -99,21 +91,13 @@ export const EFFECTS: Record<EffectId, EffectInfo> = {
 		id: 'stutter',
 		label: 'Stutter',
 		amount: 'slice length',
-		params: [
-			beats('slice', 'Slice', SLICES, '1/8'),
-			knob('smooth', 'Smooth', 0.2),
-			knob('pitch', 'Pitch drop', 0)
-		]
+		params: [beats('slice', 'Slice', SLICES, '1/8'), knob('smooth', 'Smooth', 0.2), knob('pitch', 'Pitch drop', 0)]
 	},
 	gate: {
 		id: 'gate',
 		label: 'Gate',
 		amount: 'depth',
-		params: [
-			beats('rate', 'Rate', SLICES, '1/16'),
-			knob('depth', 'Depth', 1),
-			knob('shape', 'Shape', 0.3)
-		]
+		params: [beats('rate', 'Rate', SLICES, '1/16'), knob('depth', 'Depth', 1), knob('shape', 'Shape', 0.3)]
 	},
 	bitcrush: {
 		id: 'bitcrush',

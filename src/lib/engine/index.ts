@@ -8,7 +8,21 @@ export { clockFor, engageAt, scheduleEvents, DEFAULT_TEMPO, type Clock, type Sch
 export { replay, runEvents, AudibleTracker, type ReplayOptions } from './replay';
 export { analyze, whySilent } from './analyze';
 export { lintMapping, LINT_RULES, type LintFinding, type LintRule } from './lint';
-export { verifyGroup, verifyGroupSync, groupInputs, groupIds, type VerifyOptions, type VerifyProgress, type VerifyResult } from './verify';
+export {
+	verifyGroup,
+	verifyGroupSync,
+	groupInputs,
+	groupIds,
+	type VerifyOptions,
+	type VerifyProgress,
+	type VerifyResult
+} from './verify';
 export { onePressEffect, legatoRow, type OnePressOptions, type LegatoRowOptions, type LegatoVariant } from './builders';
 export { DEMO_MAPPINGS, demoMapping, padGridProfile, padId, PAD_NOTE_BASE, type DemoMapping } from './demo';
-export { rigMachine, type RigActorEvent, type RigActorInput, type RigChangesEmitted, type RigContext } from './machines/rig';
+export {
+	rigMachine,
+	type RigActorEvent,
+	type RigActorInput,
+	type RigChangesEmitted,
+	type RigContext
+} from './machines/rig';

@@ -59,7 +59,12 @@ function clashes(m: Mapping, push: Push, name: Name) {
 		if (first === undefined) return void firstAt.set(addr, bi);
 		const input = m.profile.inputs.find((i) => i.id === b.input)!;
 		const where = input.note !== undefined ? `note ${input.note}` : `CC ${input.cc}`;
-		push('clash', bi, null, `${name(b)} and ${name(m.bindings[first])} both answer ${where} on channel ${input.channel}: one press would run both`);
+		push(
+			'clash',
+			bi,
+			null,
+			`${name(b)} and ${name(m.bindings[first])} both answer ${where} on channel ${input.channel}: one press would run both`
+		);
 	});
 }
 
@@ -69,10 +74,19 @@ function routes(m: Mapping, b: Binding, bi: number, push: Push, name: Name) {
 		if (s.target.kind !== 'rack-route' || !isOn(s)) return;
 		const { rack, deck } = s.target;
 		const missing = decks.filter(
-			(d) => d !== deck && !b.steps.some((o) => o.target.kind === 'rack-route' && o.target.rack === rack && o.target.deck === d && isOff(o))
+			(d) =>
+				d !== deck &&
+				!b.steps.some(
+					(o) => o.target.kind === 'rack-route' && o.target.rack === rack && o.target.deck === d && isOff(o)
+				)
 		);
 		if (missing.length)
-			push('partial-route', bi, si, `${name(b)} routes rack ${rack} to deck ${deck} but not away from deck ${missing.join(', ')}: if an earlier pad left rack ${rack} on ${missing.length > 1 ? 'those decks' : 'that deck'}, this pad plays there too`);
+			push(
+				'partial-route',
+				bi,
+				si,
+				`${name(b)} routes rack ${rack} to deck ${deck} but not away from deck ${missing.join(', ')}: if an earlier pad left rack ${rack} on ${missing.length > 1 ? 'those decks' : 'that deck'}, this pad plays there too`
+			);
 	});
 }
 
@@ -86,22 +100,49 @@ function modes(m: Mapping, b: Binding, bi: number, push: Push, name: Name) {
 		const needsChain = onRack.some((o) => 'slot' in o.target && o.target.slot > 1);
 		const setter = m.bindings.find((o) => o.steps.some((x) => x.target.kind === 'rack-mode' && x.target.rack === rack));
 		if (needsFocus || needsChain)
-			push('unset-mode', bi, si, `${name(b)} switches rack ${rack} on and relies on ${needsFocus ? 'focus' : 'chain'} mode without setting it: whatever mode the last pad left decides how it sounds`);
+			push(
+				'unset-mode',
+				bi,
+				si,
+				`${name(b)} switches rack ${rack} on and relies on ${needsFocus ? 'focus' : 'chain'} mode without setting it: whatever mode the last pad left decides how it sounds`
+			);
 		else if (setter)
-			push('unset-mode', bi, si, `${name(b)} switches rack ${rack} on without setting its mode, while ${name(setter)} changes that mode: this pad sounds different depending on which pad came before`);
+			push(
+				'unset-mode',
+				bi,
+				si,
+				`${name(b)} switches rack ${rack} on without setting its mode, while ${name(setter)} changes that mode: this pad sounds different depending on which pad came before`
+			);
 	});
 }
 
 function counts(m: Mapping, b: Binding, bi: number, push: Push, name: Name) {
-	const changed = new Set(m.bindings.flatMap((o) => o.steps.flatMap((s) => (s.target.kind === 'counter' ? [s.target.counter] : []))));
+	const changed = new Set(
+		m.bindings.flatMap((o) => o.steps.flatMap((s) => (s.target.kind === 'counter' ? [s.target.counter] : [])))
+	);
 	b.steps.forEach((s, si) => {
 		if (s.target.kind === 'counter' && s.action === 'count-up' && (s.phase ?? 'press') === 'press') {
 			const c = s.target.counter;
-			const down = b.steps.some((o) => o.target.kind === 'counter' && o.target.counter === c && o.action === 'count-down' && o.phase === 'release');
-			if (!down) push('unbalanced-count', bi, si, `${name(b)} counts ${c} up on press but never down on release: ${c} creeps up with every press and its guards stop matching`);
+			const down = b.steps.some(
+				(o) =>
+					o.target.kind === 'counter' && o.target.counter === c && o.action === 'count-down' && o.phase === 'release'
+			);
+			if (!down)
+				push(
+					'unbalanced-count',
+					bi,
+					si,
+					`${name(b)} counts ${c} up on press but never down on release: ${c} creeps up with every press and its guards stop matching`
+				);
 		}
 		const idle = [...new Set((s.guards ?? []).map((g) => g.counter).filter((c) => !changed.has(c)))];
-		for (const c of idle) push('idle-guard', bi, si, `step ${si + 1} of ${name(b)} is guarded on ${c}, but no step ever changes ${c}: the guard always reads its starting value`);
+		for (const c of idle)
+			push(
+				'idle-guard',
+				bi,
+				si,
+				`step ${si + 1} of ${name(b)} is guarded on ${c}, but no step ever changes ${c}: the guard always reads its starting value`
+			);
 	});
 }
 
@@ -112,12 +153,18 @@ function satisfiable(guards: Guard[], max: number): boolean {
 
 function test(v: number, g: Guard): boolean {
 	switch (g.op) {
-		case '=': return v === g.value;
-		case '!=': return v !== g.value;
-		case '<': return v < g.value;
-		case '<=': return v <= g.value;
-		case '>': return v > g.value;
-		case '>=': return v >= g.value;
+		case '=':
+			return v === g.value;
+		case '!=':
+			return v !== g.value;
+		case '<':
+			return v < g.value;
+		case '<=':
+			return v <= g.value;
+		case '>':
+			return v > g.value;
+		case '>=':
+			return v >= g.value;
 	}
 }
 
@@ -130,13 +177,28 @@ function deadSteps(m: Mapping, b: Binding, bi: number, push: Push, name: Name) {
 		for (const [c, gs] of byCounter) {
 			const max = m.counters.find((x) => x.id === c)?.max ?? 0;
 			if (!satisfiable(gs, max))
-				push('dead-step', bi, si, `${label} can never run: no value of ${c} from 0 to ${max} passes ${gs.map((g) => `${c} ${g.op} ${g.value}`).join(' and ')}`);
+				push(
+					'dead-step',
+					bi,
+					si,
+					`${label} can never run: no value of ${c} from 0 to ${max} passes ${gs.map((g) => `${c} ${g.op} ${g.value}`).join(' and ')}`
+				);
 		}
 		if (s.action === 'toggle' && s.phase === 'release')
-			push('dead-step', bi, si, `${label} is a toggle set to release, but toggles flip on press only: it never runs on release`);
+			push(
+				'dead-step',
+				bi,
+				si,
+				`${label} is a toggle set to release, but toggles flip on press only: it never runs on release`
+			);
 		const followsKnob = s.action === 'set' && s.value === undefined;
 		if (followsKnob && (kind === 'pad' || kind === 'button'))
-			push('dead-step', bi, si, `${label} has no value, so it follows a knob, but ${inputName(m, b.input)} is a ${kind}: it never runs`);
+			push(
+				'dead-step',
+				bi,
+				si,
+				`${label} has no value, so it follows a knob, but ${inputName(m, b.input)} is a ${kind}: it never runs`
+			);
 	});
 }
 
@@ -145,7 +207,9 @@ function legatoGroups(m: Mapping, push: Push) {
 	m.bindings.forEach((b, bi) => b.group && groups.set(b.group, [...(groups.get(b.group) ?? []), bi]));
 	for (const [group, members] of groups) {
 		if (new Set(members.map((bi) => m.bindings[bi].input)).size < 2) continue;
-		const counted = members.some((bi) => m.bindings[bi].steps.some((s) => s.action === 'count-up' || s.action === 'count-down'));
+		const counted = members.some((bi) =>
+			m.bindings[bi].steps.some((s) => s.action === 'count-up' || s.action === 'count-down')
+		);
 		if (counted) continue;
 		const momentary = new Map<string, number[]>();
 		for (const bi of members)
@@ -157,7 +221,12 @@ function legatoGroups(m: Mapping, push: Push) {
 		for (const [what, hits] of momentary) {
 			if (hits.length < 2) continue;
 			const first = hits[0];
-			push('legato-without-counter', Math.floor(first / 1000), first % 1000, `the ${hits.length} pads of ${group} switch ${what} on and off as plain momentary steps with no held-pad counter: lifting any one finger cuts the effect while the others are still down`);
+			push(
+				'legato-without-counter',
+				Math.floor(first / 1000),
+				first % 1000,
+				`the ${hits.length} pads of ${group} switch ${what} on and off as plain momentary steps with no held-pad counter: lifting any one finger cuts the effect while the others are still down`
+			);
 		}
 	}
 }

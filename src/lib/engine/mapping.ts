@@ -27,7 +27,6 @@ export type ParseResult<T> = { ok: true; value: T } | { ok: false; problems: Pro
 export type MappingResult = { ok: true; mapping: Mapping } | { ok: false; problems: Problem[] };
 
 const whole = (min: number, max: number) => z.number().int().min(min).max(max);
-const unit = z.number().min(0).max(1);
 const id = z.string().trim().min(1).max(64);
 const deckId = z.enum(DECK_IDS);
 const rack = whole(1, RACK_COUNT);
@@ -70,9 +69,7 @@ const inputSchema = z.object({
 	cc: whole(0, 127).optional(),
 	row: whole(0, 63).optional(),
 	col: whole(0, 63).optional(),
-	led: z
-		.object({ note: whole(0, 127), on: whole(0, 127).optional(), off: whole(0, 127).optional() })
-		.optional()
+	led: z.object({ note: whole(0, 127), on: whole(0, 127).optional(), off: whole(0, 127).optional() }).optional()
 });
 
 const counterSchema = z.object({
@@ -123,15 +120,21 @@ function crossCheck(m: Raw): { path: Path; message: string }[] {
 	};
 	const seen = new Set<string>();
 	m.profile.inputs.forEach((input, i) => {
-		if (seen.has(input.id)) out.push({ path: ['profile', 'inputs', i, 'id'], message: `another input is already called "${input.id}"` });
+		if (seen.has(input.id))
+			out.push({ path: ['profile', 'inputs', i, 'id'], message: `another input is already called "${input.id}"` });
 		seen.add(input.id);
 		if ((input.note === undefined) === (input.cc === undefined))
-			out.push({ path: ['profile', 'inputs', i], message: 'give the input either a note or a CC number (exactly one)' });
+			out.push({
+				path: ['profile', 'inputs', i],
+				message: 'give the input either a note or a CC number (exactly one)'
+			});
 	});
 	const counters = new Map<string, number>();
 	m.counters.forEach((c, i) => {
-		if (counters.has(c.id)) out.push({ path: ['counters', i, 'id'], message: `another counter is already called "${c.id}"` });
-		if (c.rest > c.max) out.push({ path: ['counters', i, 'rest'], message: `rest value ${c.rest} is above the counter's max ${c.max}` });
+		if (counters.has(c.id))
+			out.push({ path: ['counters', i, 'id'], message: `another counter is already called "${c.id}"` });
+		if (c.rest > c.max)
+			out.push({ path: ['counters', i, 'rest'], message: `rest value ${c.rest} is above the counter's max ${c.max}` });
 		counters.set(c.id, c.max);
 	});
 	const counterOk = (c: string, path: Path) => {
@@ -139,7 +142,8 @@ function crossCheck(m: Raw): { path: Path; message: string }[] {
 	};
 	m.bindings.forEach((b, bi) => {
 		const at: Path = ['bindings', bi];
-		if (!seen.has(b.input)) out.push({ path: [...at, 'input'], message: `there is no input called "${b.input}" in the controller profile` });
+		if (!seen.has(b.input))
+			out.push({ path: [...at, 'input'], message: `there is no input called "${b.input}" in the controller profile` });
 		if (b.deck) deckOk(b.deck, [...at, 'deck']);
 		b.steps.forEach((s, si) => {
 			const sp: Path = [...at, 'steps', si];
@@ -157,7 +161,10 @@ const SWITCHES = new Set(['rack-on', 'rack-route', 'slot-on', 'deck-play']);
 const LEVELS = new Set(['rack-mix', 'slot-amount', 'focus-param']);
 
 /** Whether the action fits the target and the value fits both; null when it does. */
-function stepProblem(s: Pick<Step, 'target' | 'action'> & { value?: unknown }, counters: Map<string, number>): string | null {
+function stepProblem(
+	s: Pick<Step, 'target' | 'action'> & { value?: unknown },
+	counters: Map<string, number>
+): string | null {
 	const { kind } = s.target;
 	const v = s.value;
 	if (s.action === 'momentary' || s.action === 'toggle') {
@@ -212,7 +219,9 @@ function friendly(issue: z.core.$ZodIssue): string {
 			return `must be ${issue.values.length === 1 ? '' : 'one of '}${issue.values.map((v) => JSON.stringify(v)).join(', ')}`;
 		case 'invalid_union': {
 			const options = (issue as { options?: unknown[] }).options;
-			return options ? `must be one of ${options.map((o) => JSON.stringify(o)).join(', ')}` : 'is not a value this field accepts';
+			return options
+				? `must be one of ${options.map((o) => JSON.stringify(o)).join(', ')}`
+				: 'is not a value this field accepts';
 		}
 		default:
 			return issue.message;

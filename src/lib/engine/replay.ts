@@ -54,7 +54,14 @@ export class AudibleTracker {
 				const now = isAudible(state, r + 1, DECK_IDS[d]);
 				const open = this.#open[slot];
 				if (now && !open) {
-					const iv: AudibleInterval = { rack: r + 1, deck: DECK_IDS[d], start: at, end: null, startEvent: index, endEvent: null };
+					const iv: AudibleInterval = {
+						rack: r + 1,
+						deck: DECK_IDS[d],
+						start: at,
+						end: null,
+						startEvent: index,
+						endEvent: null
+					};
 					this.intervals.push(iv);
 					this.#open[slot] = iv;
 				} else if (!now && open) {

@@ -248,7 +248,15 @@ function runCounter(d: Draft, step: CompiledStep, v: unknown, type: InputEvent['
 	const to = Math.min(max, Math.max(0, want));
 	if (to !== want) {
 		if (d.clamps === NO_CLAMPS) d.clamps = [];
-		d.clamps.push({ t: d.t, event: d.event, counter: id, binding: step.binding, step: step.index, attempted: want, value: to });
+		d.clamps.push({
+			t: d.t,
+			event: d.event,
+			counter: id,
+			binding: step.binding,
+			step: step.index,
+			attempted: want,
+			value: to
+		});
 	}
 	if (to === cur) return;
 	d.record(step.path, cur, to);

@@ -31,7 +31,11 @@ export const sessionSchema = z.object({
 		.superRefine((events, ctx) => {
 			for (let i = 1; i < events.length; i++)
 				if (events[i].t < events[i - 1].t) {
-					ctx.addIssue({ code: 'custom', path: [i, 't'], message: `comes before the event above it (${events[i - 1].t} ms): events must be in time order` });
+					ctx.addIssue({
+						code: 'custom',
+						path: [i, 't'],
+						message: `comes before the event above it (${events[i - 1].t} ms): events must be in time order`
+					});
 					return;
 				}
 		})
@@ -62,7 +66,11 @@ export function sessionEvents(session: SessionDocument): { events: InputEvent[];
 }
 
 /** A session document around plain input events, e.g. a verifier counterexample to save. */
-export function sessionFromEvents(events: InputEvent[], tempo: number, startedAt = new Date(0).toISOString()): SessionDocument {
+export function sessionFromEvents(
+	events: InputEvent[],
+	tempo: number,
+	startedAt = new Date(0).toISOString()
+): SessionDocument {
 	return {
 		version: 1,
 		tempo,

@@ -56,7 +56,10 @@ class Search {
 	) {
 		this.rules = rulesFor(mapping);
 		this.clashing = inputs.map((i) => this.rules.clashInputs.has(i));
-		this.ownerCode = [0, ...mapping.bindings.map((b) => 1 + (b.deck ? DECK_IDS.indexOf(b.deck) : 4) + (b.intent === 'latched' ? 8 : 0))];
+		this.ownerCode = [
+			0,
+			...mapping.bindings.map((b) => 1 + (b.deck ? DECK_IDS.indexOf(b.deck) : 4) + (b.intent === 'latched' ? 8 : 0))
+		];
 		const s = initialRigState(mapping);
 		const w = initialWatch(this.rules);
 		this.push(s, w, -1, -1, 0);
@@ -98,7 +101,7 @@ class Search {
 		for (const c of this.mapping.counters) codes.push(s.counters[c.id] ?? 0);
 		let used = 0;
 		for (let i = 0; i < w.used.length; i++) {
-			if (w.used[i]) used |= 1 << i % 16;
+			if (w.used[i]) used |= 1 << (i % 16);
 			if (i % 16 === 15) {
 				codes.push(used);
 				used = 0;
@@ -185,7 +188,11 @@ function progress(s: Search): VerifyProgress {
 }
 
 /** Explore every press/release order of `inputIds`; yields to the event loop between chunks. */
-export async function verifyGroup(mapping: Mapping, inputIds: string[], options: VerifyOptions = {}): Promise<VerifyResult> {
+export async function verifyGroup(
+	mapping: Mapping,
+	inputIds: string[],
+	options: VerifyOptions = {}
+): Promise<VerifyResult> {
 	const search = new Search(mapping, check(mapping, inputIds));
 	const max = options.maxStates ?? 2_000_000;
 	for (;;) {

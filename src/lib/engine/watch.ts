@@ -9,7 +9,6 @@
 //   leak     a rack is audible on a deck other than the deck of the binding that last set it up;
 //   drift    no pad that counts a counter is held, yet the counter is off its rest value.
 // Clash and clamp are events, not states: `clashInputs` and the clamps applyEvent returns.
-import { compileMapping } from './compile';
 import { isAudible } from './rig';
 import { DECK_IDS, RACK_COUNT, type Binding, type DeckId, type Mapping, type RigState } from './types';
 
@@ -105,7 +104,14 @@ function buildRules(m: Mapping): Rules {
 		if (u === undefined) {
 			u = units.length;
 			unitIndex.set(key, u);
-			units.push({ key, name: b.group ?? inputName(m, b.input), deck: b.deck ?? null, decks: b.deck ? [b.deck] : [], inputs: new Set(), racks: [] });
+			units.push({
+				key,
+				name: b.group ?? inputName(m, b.input),
+				deck: b.deck ?? null,
+				decks: b.deck ? [b.deck] : [],
+				inputs: new Set(),
+				racks: []
+			});
 		}
 		const unit = units[u];
 		unit.inputs.add(b.input);
@@ -135,7 +141,13 @@ function buildRules(m: Mapping): Rules {
 		byAddress.set(a, [...(byAddress.get(a) ?? []), i.id]);
 	}
 	const clashInputs = new Map<string, string[]>();
-	for (const ids of byAddress.values()) if (ids.length > 1) for (const id of ids) clashInputs.set(id, ids.filter((x) => x !== id));
+	for (const ids of byAddress.values())
+		if (ids.length > 1)
+			for (const id of ids)
+				clashInputs.set(
+					id,
+					ids.filter((x) => x !== id)
+				);
 	// Two bindings on one input answer the same address too.
 	const perInput = new Map<string, number>();
 	for (const b of m.bindings) perInput.set(b.input, (perInput.get(b.input) ?? 0) + 1);
@@ -207,14 +219,31 @@ export function conditions(rules: Rules, s: RigState, w: WatchState): Condition[
 		if (heldAny(s.held, u.inputs)) {
 			let heard = false;
 			for (let k = 0; k < decks.length && !heard; k++) heard = audibleOn(s, u.racks, decks[k]);
-			if (!heard) out.push({ kind: 'dropout', key: `dropout|${u.key}`, unit: ui, rack: u.racks[0], deck: u.deck, counter: null, binding: null });
+			if (!heard)
+				out.push({
+					kind: 'dropout',
+					key: `dropout|${u.key}`,
+					unit: ui,
+					rack: u.racks[0],
+					deck: u.deck,
+					counter: null,
+					binding: null
+				});
 			continue;
 		}
 		if (!w.used[ui]) continue;
 		for (const d of decks)
 			for (const r of u.racks) {
 				if (!isAudible(s, r, d) || !setUpBy(rules, w, r, u) || claimed(rules, s, w, r, d)) continue;
-				out.push({ kind: 'stuck', key: `stuck|${u.key}|${r}|${d}`, unit: ui, rack: r, deck: d, counter: null, binding: null });
+				out.push({
+					kind: 'stuck',
+					key: `stuck|${u.key}|${r}|${d}`,
+					unit: ui,
+					rack: r,
+					deck: d,
+					counter: null,
+					binding: null
+				});
 			}
 	}
 	for (let r = 1; r <= RACK_COUNT; r++) {

@@ -3,14 +3,7 @@
 import type { ControllerInput, ControllerProfile, InputEvent } from '$lib/engine/types';
 
 export type MessageKind =
-	| 'note-off'
-	| 'note-on'
-	| 'poly-pressure'
-	| 'cc'
-	| 'program'
-	| 'channel-pressure'
-	| 'pitch-bend'
-	| 'system';
+	'note-off' | 'note-on' | 'poly-pressure' | 'cc' | 'program' | 'channel-pressure' | 'pitch-bend' | 'system';
 
 export interface MidiMessage {
 	kind: MessageKind;

@@ -37,7 +37,8 @@ export function learnPrompts(plan: LearnPlan): LearnPrompt[] {
 	return prompts;
 }
 
-export type LearnAnswer = { ok: true; input: ControllerInput } | { ok: false; reason: 'ignored' | 'taken'; takenBy?: string };
+export type LearnAnswer =
+	{ ok: true; input: ControllerInput } | { ok: false; reason: 'ignored' | 'taken'; takenBy?: string };
 
 const address = (i: Pick<ControllerInput, 'channel' | 'note' | 'cc'>) =>
 	i.note !== undefined ? `note ${i.channel}:${i.note}` : `cc ${i.channel}:${i.cc}`;
@@ -46,13 +47,23 @@ const address = (i: Pick<ControllerInput, 'channel' | 'note' | 'cc'>) =>
  * What a message means for the current prompt. Releases and messages of the wrong sort are
  * ignored (a pad's own Note Off arrives after every press); an address already learned is refused.
  */
-export function answerPrompt(prompt: LearnPrompt, message: MidiMessage, learned: readonly ControllerInput[]): LearnAnswer {
+export function answerPrompt(
+	prompt: LearnPrompt,
+	message: MidiMessage,
+	learned: readonly ControllerInput[]
+): LearnAnswer {
 	const channel = message.channel;
 	if (channel === undefined || message.data1 === undefined) return { ok: false, reason: 'ignored' };
 	let input: ControllerInput;
 	if (prompt.kind === 'pad') {
 		if (message.kind === 'note-on' && (message.data2 ?? 0) > 0) {
-			input = { id: prompt.id, kind: 'pad', channel, note: message.data1, led: { note: message.data1, on: 127, off: 0 } };
+			input = {
+				id: prompt.id,
+				kind: 'pad',
+				channel,
+				note: message.data1,
+				led: { note: message.data1, on: 127, off: 0 }
+			};
 		} else if (message.kind === 'cc' && (message.data2 ?? 0) >= 64) {
 			input = { id: prompt.id, kind: 'pad', channel, cc: message.data1 };
 		} else return { ok: false, reason: 'ignored' };

@@ -44,7 +44,10 @@ export class MidiDevices {
 	ports = $state.raw<MidiPortInfo[]>([]);
 
 	#midi: typeof WebMidiType | null = null;
-	#attached = new Map<string, { input: Input; handler: (e: { message: { rawData: Uint8Array }; timestamp: number }) => void }>();
+	#attached = new Map<
+		string,
+		{ input: Input; handler: (e: { message: { rawData: Uint8Array }; timestamp: number }) => void }
+	>();
 	#known = new Map<string, MidiPortInfo>();
 	#onMessage = new Set<MessageListener>();
 	#onArrive = new Set<PortListener>();
@@ -154,7 +157,8 @@ export class MidiDevices {
 		access.inputs.forEach((port) => visit(port, 'input'));
 		access.outputs.forEach((port) => visit(port, 'output'));
 		for (const info of this.#known.values()) {
-			if (!seen.has(info.id) && info.state === 'connected') this.#note({ ...info, state: 'disconnected' }, arrived, gone);
+			if (!seen.has(info.id) && info.state === 'connected')
+				this.#note({ ...info, state: 'disconnected' }, arrived, gone);
 		}
 		for (const info of this.#known.values()) if (info.kind === 'input') this.#attach(info);
 		this.ports = [...this.#known.values()];

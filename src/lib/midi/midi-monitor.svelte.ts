@@ -27,7 +27,9 @@ export class MidiMonitorLog {
 	#next = 1;
 
 	readonly visible = $derived(
-		this.entries.filter((e) => (this.port === 'all' || e.port === this.port) && (this.kind === 'all' || e.kind === this.kind))
+		this.entries.filter(
+			(e) => (this.port === 'all' || e.port === this.port) && (this.kind === 'all' || e.kind === this.kind)
+		)
 	);
 
 	constructor(limit = 200) {

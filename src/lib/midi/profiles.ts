@@ -22,7 +22,7 @@ function padRows(rows: number, cols: number, firstNote: number, channel = 1): Co
 			});
 		}
 	}
-	return inputs.sort((a, b) => (a.row! - b.row!) || (a.col! - b.col!));
+	return inputs.sort((a, b) => a.row! - b.row! || a.col! - b.col!);
 }
 
 export const GENERIC_4X4: ControllerProfile = {

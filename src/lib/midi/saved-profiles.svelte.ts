@@ -5,7 +5,14 @@ import { parseMapping, type ControllerProfile } from '$lib/engine';
 const KEY = 'padproof.controller-profiles';
 
 export function checkProfile(value: unknown): ControllerProfile | null {
-	const result = parseMapping({ version: 1, name: 'profile check', decks: 2, profile: value, counters: [], bindings: [] });
+	const result = parseMapping({
+		version: 1,
+		name: 'profile check',
+		decks: 2,
+		profile: value,
+		counters: [],
+		bindings: []
+	});
 	return result.ok ? result.mapping.profile : null;
 }
 

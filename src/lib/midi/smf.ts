@@ -62,7 +62,15 @@ export function exportSessionMidi(
 		tracks: [
 			[
 				{ deltaTime: 0, meta: true, type: 'trackName', text: asciiOnly(options.name ?? 'Padproof session') },
-				{ deltaTime: 0, meta: true, type: 'timeSignature', numerator: 4, denominator: 4, metronome: 24, thirtyseconds: 8 },
+				{
+					deltaTime: 0,
+					meta: true,
+					type: 'timeSignature',
+					numerator: 4,
+					denominator: 4,
+					metronome: 24,
+					thirtyseconds: 8
+				},
 				{ deltaTime: 0, meta: true, type: 'setTempo', microsecondsPerBeat: tempo },
 				{ deltaTime: 0, meta: true, type: 'endOfTrack' }
 			],
@@ -138,7 +146,10 @@ function frameChunks(bytes: number[]): { ok: true; file: number[]; warnings: str
 		at += 8 + length;
 	}
 	if (tracks < tracksAnnounced) {
-		return { ok: false, error: `The header announces ${tracksAnnounced} tracks but the file holds ${tracks}: it is truncated.` };
+		return {
+			ok: false,
+			error: `The header announces ${tracksAnnounced} tracks but the file holds ${tracks}: it is truncated.`
+		};
 	}
 	return { ok: true, file, warnings };
 }
@@ -175,7 +186,9 @@ export function importSessionMidi(input: ArrayLike<number> | ArrayBuffer, profil
 	try {
 		data = parseMidi(framed.file);
 	} catch (error) {
-		return fail(`Not a readable MIDI file: ${typeof error === 'string' ? error : error instanceof Error ? error.message : 'unknown error'}.`);
+		return fail(
+			`Not a readable MIDI file: ${typeof error === 'string' ? error : error instanceof Error ? error.message : 'unknown error'}.`
+		);
 	}
 	const { header, tracks } = data;
 	if (header.format !== 0 && header.format !== 1) {
@@ -188,7 +201,8 @@ export function importSessionMidi(input: ArrayLike<number> | ArrayBuffer, profil
 	let smpteMsPerTick = 0;
 	if (ticksPerQuarter === null) {
 		const fps = header.framesPerSecond === 29 ? 29.97 : (header.framesPerSecond ?? 0);
-		if (!(fps > 0) || !header.ticksPerFrame) return fail('The time division is neither ticks per quarter nor a valid SMPTE rate.');
+		if (!(fps > 0) || !header.ticksPerFrame)
+			return fail('The time division is neither ticks per quarter nor a valid SMPTE rate.');
 		smpteMsPerTick = 1000 / (fps * header.ticksPerFrame);
 	} else if (ticksPerQuarter === 0) return fail('The time division is 0 ticks per quarter note.');
 
@@ -211,7 +225,10 @@ export function importSessionMidi(input: ArrayLike<number> | ArrayBuffer, profil
 	let lastTick = 0;
 	const notes: SmfNote[] = [];
 	for (const { tick, track, event } of all) {
-		ms += ticksPerQuarter === null ? (tick - lastTick) * smpteMsPerTick : ((tick - lastTick) * tempo) / ticksPerQuarter / 1000;
+		ms +=
+			ticksPerQuarter === null
+				? (tick - lastTick) * smpteMsPerTick
+				: ((tick - lastTick) * tempo) / ticksPerQuarter / 1000;
 		lastTick = tick;
 		if (event.type === 'setTempo') {
 			tempo = event.microsecondsPerBeat;
@@ -219,9 +236,25 @@ export function importSessionMidi(input: ArrayLike<number> | ArrayBuffer, profil
 		} else if (event.type === 'noteOn' || event.type === 'noteOff') {
 			// MIDI 1.0: a Note On with velocity 0 is a Note Off (the library reports it as noteOff).
 			const kind = event.type === 'noteOn' ? 'press' : 'release';
-			notes.push({ t: ms, tick, track, channel: event.channel + 1, kind, number: event.noteNumber, value: event.velocity });
+			notes.push({
+				t: ms,
+				tick,
+				track,
+				channel: event.channel + 1,
+				kind,
+				number: event.noteNumber,
+				value: event.velocity
+			});
 		} else if (event.type === 'controller') {
-			notes.push({ t: ms, tick, track, channel: event.channel + 1, kind: 'cc', number: event.controllerType, value: event.value });
+			notes.push({
+				t: ms,
+				tick,
+				track,
+				channel: event.channel + 1,
+				kind: 'cc',
+				number: event.controllerType,
+				value: event.value
+			});
 		}
 	}
 
@@ -255,8 +288,7 @@ export function exportSessionFile(session: SessionDocument, profile: ControllerP
 }
 
 export type SessionImport =
-	| { ok: true; session: SessionDocument; unmapped: number; warnings: string[] }
-	| { ok: false; error: string };
+	{ ok: true; session: SessionDocument; unmapped: number; warnings: string[] } | { ok: false; error: string };
 
 /** A file as a session document: every note and CC kept with its raw bytes, decoded with the profile. */
 export function importSessionFile(input: ArrayLike<number> | ArrayBuffer, profile: ControllerProfile): SessionImport {
@@ -267,7 +299,10 @@ export function importSessionFile(input: ArrayLike<number> | ArrayBuffer, profil
 		const status = (n.kind === 'cc' ? 0xb0 : n.kind === 'press' ? 0x90 : 0x80) | (n.channel - 1);
 		const midi = [status, n.number, n.value];
 		const d = decode(midi, n.t);
-		const input = d.status === 'event' ? { input: d.event.input, type: d.event.type, ...(d.event.value !== undefined && { value: d.event.value }) } : null;
+		const input =
+			d.status === 'event'
+				? { input: d.event.input, type: d.event.type, ...(d.event.value !== undefined && { value: d.event.value }) }
+				: null;
 		return { t: n.t, midi, input };
 	});
 	const session: SessionDocument = { version: 1, tempo: r.bpm, startedAt: new Date(0).toISOString(), events };

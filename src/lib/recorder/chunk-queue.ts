@@ -23,7 +23,10 @@ export interface Chunk {
 
 export type SendChunk = (sessionId: string, chunk: Chunk) => Promise<void>;
 
-export type SyncStore = Pick<Storage, 'getItem' | 'setItem' | 'removeItem'> & { key(i: number): string | null; readonly length: number };
+export type SyncStore = Pick<Storage, 'getItem' | 'setItem' | 'removeItem'> & {
+	key(i: number): string | null;
+	readonly length: number;
+};
 
 const PREFIX = 'padproof.recording.';
 const activeKey = (mappingId: string) => `${PREFIX}active:${mappingId}`;
@@ -89,7 +92,9 @@ export class ChunkQueue {
 
 	async unsent(sessionId: string): Promise<Chunk[]> {
 		const prefix = `chunk:${sessionId}:`;
-		const kept = (await entries<string, Chunk>(this.#store)).filter(([key]) => typeof key === 'string' && key.startsWith(prefix)).map(([, c]) => c);
+		const kept = (await entries<string, Chunk>(this.#store))
+			.filter(([key]) => typeof key === 'string' && key.startsWith(prefix))
+			.map(([, c]) => c);
 		const bySeq = new Map([...kept, ...this.#stashed(sessionId)].map((c) => [c.seq, c]));
 		return [...bySeq.values()].sort((a, b) => a.seq - b.seq);
 	}

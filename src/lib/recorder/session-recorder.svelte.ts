@@ -72,9 +72,21 @@ export class SessionRecorder {
 		this.error = null;
 		try {
 			const startedAt = new Date();
-			const response = await this.#json('/api/sessions', { mappingId: this.#options.mappingId, name: name?.trim() || undefined, tempo: this.#options.tempo(), startedAt: startedAt.toISOString() });
+			const response = await this.#json('/api/sessions', {
+				mappingId: this.#options.mappingId,
+				name: name?.trim() || undefined,
+				tempo: this.#options.tempo(),
+				startedAt: startedAt.toISOString()
+			});
 			const { id, name: given } = response as { id: string; name: string };
-			this.#recording = { sessionId: id, mappingId: this.#options.mappingId, name: given, startEpoch: startedAt.getTime(), nextSeq: 0, eventCount: 0 };
+			this.#recording = {
+				sessionId: id,
+				mappingId: this.#options.mappingId,
+				name: given,
+				startEpoch: startedAt.getTime(),
+				nextSeq: 0,
+				eventCount: 0
+			};
 			this.#queue.saveActive(this.#recording);
 			this.#begin();
 			this.#media?.start(1000);
@@ -119,7 +131,11 @@ export class SessionRecorder {
 			return null;
 		}
 		try {
-			const result = (await this.#json(`/api/sessions/${recording.sessionId}`, { finish: true, name: name?.trim() || undefined }, 'PATCH')) as { findings: number };
+			const result = (await this.#json(
+				`/api/sessions/${recording.sessionId}`,
+				{ finish: true, name: name?.trim() || undefined },
+				'PATCH'
+			)) as { findings: number };
 			if (audio) await this.#upload(recording.sessionId, audio);
 			this.#queue.clearActive(recording.mappingId);
 			this.#end();
@@ -222,7 +238,8 @@ export class SessionRecorder {
 			return;
 		}
 		const body = await response.json().catch(() => null);
-		const permanent = response.status >= 400 && response.status < 500 && response.status !== 408 && response.status !== 429;
+		const permanent =
+			response.status >= 400 && response.status < 500 && response.status !== 408 && response.status !== 429;
 		if (permanent) this.error = body?.error ?? `The server refused the events (${response.status}).`;
 		throw new SendError(body?.error ?? `The server answered ${response.status}.`, permanent);
 	}
@@ -230,7 +247,11 @@ export class SessionRecorder {
 	async #json(path: string, body: unknown, method = 'POST'): Promise<unknown> {
 		let response: Response;
 		try {
-			response = await this.#fetch(path, { method, headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) });
+			response = await this.#fetch(path, {
+				method,
+				headers: { 'content-type': 'application/json' },
+				body: JSON.stringify(body)
+			});
 		} catch {
 			throw new Error('Padproof’s server cannot be reached. Check the connection and try again.');
 		}
@@ -243,7 +264,12 @@ export class SessionRecorder {
 		const media = this.#media;
 		if (!media || media.state === 'inactive') return Promise.resolve(null);
 		return new Promise((resolve) => {
-			media.onstop = () => resolve(this.#audioParts.length ? new Blob(this.#audioParts, { type: media.mimeType.split(';')[0] || 'audio/webm' }) : null);
+			media.onstop = () =>
+				resolve(
+					this.#audioParts.length
+						? new Blob(this.#audioParts, { type: media.mimeType.split(';')[0] || 'audio/webm' })
+						: null
+				);
 			media.stop();
 		});
 	}

@@ -4,7 +4,15 @@
 // have landed so far, and its findings are shown. So the room never re-states a finding rule and
 // shows exactly what a replay of the same events would.
 import { analyze, type Finding, type InputEvent, type Mapping, type RigChangesEmitted } from '$lib/engine';
-import { conditions, initialWatch, inputName, observe, rulesFor, touchedRacks, type WatchState } from '$lib/engine/watch';
+import {
+	conditions,
+	initialWatch,
+	inputName,
+	observe,
+	rulesFor,
+	touchedRacks,
+	type WatchState
+} from '$lib/engine/watch';
 import type { Clock } from '$lib/engine';
 
 export interface LiveFinding extends Finding {

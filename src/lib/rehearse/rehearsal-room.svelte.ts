@@ -3,7 +3,15 @@
 // pads' lights, the sound, the live findings and the recorder. The room decides nothing about what
 // a step does — it shows and plays what the engine says.
 import { createActor, type Actor } from 'xstate';
-import { initialRigState, rigMachine, type InputEvent, type Mapping, type RigChangesEmitted, type RigState, type SessionEvent } from '$lib/engine';
+import {
+	initialRigState,
+	rigMachine,
+	type InputEvent,
+	type Mapping,
+	type RigChangesEmitted,
+	type RigState,
+	type SessionEvent
+} from '$lib/engine';
 import { ControllerRig } from '$lib/midi/controller-rig.svelte';
 import type { Decoded } from '$lib/midi/decode';
 import type { HubEvent } from '$lib/midi/input-hub.svelte';
@@ -19,7 +27,20 @@ export const COUNT_IN_BEATS = 4;
 /** What the room uses of the session recorder (SessionRecorder fits it; tests pass a stand-in). */
 export type RoomRecorder = Pick<
 	SessionRecorder,
-	'status' | 'name' | 'eventCount' | 'unsent' | 'offline' | 'error' | 'uploadProgress' | 'elapsed' | 'start' | 'record' | 'stop' | 'resume' | 'attachAudio' | 'dispose'
+	| 'status'
+	| 'name'
+	| 'eventCount'
+	| 'unsent'
+	| 'offline'
+	| 'error'
+	| 'uploadProgress'
+	| 'elapsed'
+	| 'start'
+	| 'record'
+	| 'stop'
+	| 'resume'
+	| 'attachAudio'
+	| 'dispose'
 >;
 
 export interface RoomOptions {
@@ -97,7 +118,9 @@ export class RehearsalRoom {
 	/** Browser only: starts the actor, listens to every source, asks for MIDI, resumes a recording. */
 	async start(): Promise<void> {
 		if (this.#actor) return;
-		this.#actor = createActor(rigMachine, { input: { mapping: this.mapping, tempo: this.clock.tempo, origin: this.clock.origin } });
+		this.#actor = createActor(rigMachine, {
+			input: { mapping: this.mapping, tempo: this.clock.tempo, origin: this.clock.origin }
+		});
 		this.#stops.push(
 			this.#actor.on('changes', (e) => this.#landedEvent(e)).unsubscribe,
 			this.controllers.hub.subscribe((e) => this.#received(e)),
@@ -190,8 +213,10 @@ export class RehearsalRoom {
 	#received(e: HubEvent): void {
 		const t = Math.max(this.#lastT, e.t - this.#t0);
 		this.#lastT = t;
-		const event: InputEvent = e.value === undefined ? { t, input: e.input, type: e.type } : { t, input: e.input, type: e.type, value: e.value };
-		const input = e.value === undefined ? { input: e.input, type: e.type } : { input: e.input, type: e.type, value: e.value };
+		const event: InputEvent =
+			e.value === undefined ? { t, input: e.input, type: e.type } : { t, input: e.input, type: e.type, value: e.value };
+		const input =
+			e.value === undefined ? { input: e.input, type: e.type } : { input: e.input, type: e.type, value: e.value };
 		const recordable: Recordable = { input, t: this.#recorderTime(e.t) };
 		if (e.source.startsWith('midi:')) {
 			// The bytes arrive in the decoded callback right after this; a release without a message
@@ -209,7 +234,11 @@ export class RehearsalRoom {
 		const pending = this.#midiEvent;
 		this.#midiEvent = null;
 		// A message the hub didn't turn into an event (unmapped, or a pad already held elsewhere).
-		this.#record({ midi: decoded.message.bytes, input: pending?.input ?? null, t: pending?.t ?? this.#recorderTime(t) });
+		this.#record({
+			midi: decoded.message.bytes,
+			input: pending?.input ?? null,
+			t: pending?.t ?? this.#recorderTime(t)
+		});
 	}
 
 	/** A performance-clock time (a MIDI, pointer or key timestamp) on the recording's clock. */

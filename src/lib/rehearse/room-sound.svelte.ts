@@ -14,9 +14,17 @@ export type SoundStatus = 'idle' | 'starting' | 'running' | 'unavailable';
 
 const SCHEDULE_AHEAD = 0.12; // seconds of clicks booked ahead of the audio clock
 const TICK_MS = 25;
-export const DEFAULT_LOOPS: Record<DeckId, string> = { A: 'glass-steps', B: 'night-bus', C: 'porch-light', D: 'coil-run' };
+export const DEFAULT_LOOPS: Record<DeckId, string> = {
+	A: 'glass-steps',
+	B: 'night-bus',
+	C: 'porch-light',
+	D: 'coil-run'
+};
 
-type Click = { triggerAttackRelease(note: number, duration: number, time: number, velocity?: number): unknown; dispose(): unknown };
+type Click = {
+	triggerAttackRelease(note: number, duration: number, time: number, velocity?: number): unknown;
+	dispose(): unknown;
+};
 
 export class RoomSound {
 	status = $state<SoundStatus>('idle');
@@ -71,7 +79,11 @@ export class RoomSound {
 			this.#rig.origin = now - roomTime / 1000;
 			this.#rig.master.setLevel(this.masterDb, ctx.currentTime);
 			this.#rig.master.output.toDestination();
-			this.#click = new tone.Synth({ oscillator: { type: 'sine' }, envelope: { attack: 0.001, decay: 0.04, sustain: 0, release: 0.01 }, volume: -10 }).connect(this.#rig.master.input);
+			this.#click = new tone.Synth({
+				oscillator: { type: 'sine' },
+				envelope: { attack: 0.001, decay: 0.04, sustain: 0, release: 0.01 },
+				volume: -10
+			}).connect(this.#rig.master.input);
 			for (const d of DECK_IDS) this.#applyDeck(d);
 			this.#rig.startClock();
 			this.status = 'running';

@@ -19,9 +19,11 @@ const findings = (n: number) => `${n} finding${n === 1 ? '' : 's'}`;
 
 export function compareFindings(original: readonly Finding[], against: readonly Finding[]): Comparison {
 	const count = (list: readonly Finding[], kind: FindingKind) => list.filter((f) => f.kind === kind).length;
-	const kinds = FINDING_KINDS.map((kind) => ({ kind, before: count(original, kind), after: count(against, kind) })).filter(
-		(k) => k.before + k.after > 0
-	);
+	const kinds = FINDING_KINDS.map((kind) => ({
+		kind,
+		before: count(original, kind),
+		after: count(against, kind)
+	})).filter((k) => k.before + k.after > 0);
 	const before = original.length;
 	const after = against.length;
 	const verdict = after === 0 && before > 0 ? 'fixed' : after < before ? 'better' : after > before ? 'worse' : 'same';

@@ -11,7 +11,12 @@ import type { RigSnapshots } from './rig-snapshots';
 // Frames further apart than this are a jump, not playback (a dragged cursor, a slow tab).
 const MAX_FRAME_MS = 250;
 
-export function followSound(sound: ReplaySound, cursor: ReplayCursor, snapshots: () => RigSnapshots | null, changes: () => readonly RigChange[]) {
+export function followSound(
+	sound: ReplaySound,
+	cursor: ReplayCursor,
+	snapshots: () => RigSnapshots | null,
+	changes: () => readonly RigChange[]
+) {
 	let last = { t: 0, playing: false, on: false, snaps: null as RigSnapshots | null };
 	$effect(() => {
 		const now = { t: cursor.t, playing: cursor.playing, on: sound.status === 'on', snaps: snapshots() };
@@ -21,7 +26,13 @@ export function followSound(sound: ReplaySound, cursor: ReplayCursor, snapshots:
 		}
 		untrack(() => {
 			if (!now.snaps) return;
-			const playedOn = last.on && now.playing && last.playing && now.snaps === last.snaps && now.t >= last.t && now.t - last.t < MAX_FRAME_MS * cursor.speed;
+			const playedOn =
+				last.on &&
+				now.playing &&
+				last.playing &&
+				now.snaps === last.snaps &&
+				now.t >= last.t &&
+				now.t - last.t < MAX_FRAME_MS * cursor.speed;
 			if (playedOn) sound.follow(changesBetween(changes(), last.t, now.t), now.t);
 			else sound.jump(now.snaps.stateAt(now.t), now.t, now.playing);
 		});

@@ -75,7 +75,13 @@ export function padLanes(mapping: Mapping | null, events: readonly InputEvent[])
 		if (!lane) {
 			const binding = mapping?.bindings.find((b) => b.input === e.input);
 			const label = inputLabel(mapping, e.input);
-			lane = { input: e.input, label, detail: binding?.label && binding.label !== label ? binding.label : null, spans: [], turns: [] };
+			lane = {
+				input: e.input,
+				label,
+				detail: binding?.label && binding.label !== label ? binding.label : null,
+				spans: [],
+				turns: []
+			};
 			lanes.set(e.input, lane);
 		}
 		if (e.type === 'turn') lane.turns.push({ t: e.t, value: e.value ?? 0, event: k });
@@ -108,7 +114,8 @@ export function audibleLanes(timeline: Timeline, findings: readonly Finding[]): 
 export function counterLanes(mapping: Mapping, timeline: Timeline): CounterLane[] {
 	return mapping.counters.map((c) => {
 		const steps = [{ t: 0, value: initialRigState(mapping).counters[c.id] ?? c.rest }];
-		for (const ch of timeline.changes) if (ch.path === `counters.${c.id}`) steps.push({ t: ch.t, value: Number(ch.to) });
+		for (const ch of timeline.changes)
+			if (ch.path === `counters.${c.id}`) steps.push({ t: ch.t, value: Number(ch.to) });
 		const peak = steps.reduce((m, s) => Math.max(m, s.value), Math.max(c.rest, 1));
 		return { id: c.id, label: c.label ?? c.id, max: c.max, rest: c.rest, peak, steps };
 	});

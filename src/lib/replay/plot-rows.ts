@@ -31,7 +31,11 @@ export function plotRows(model: ReplayModel): { rows: PlotRow[]; height: number 
 	};
 	if (model.mapping) add('findings', 'findings', 'Findings', `${model.findings.length}`, null);
 	model.pads.forEach((p, i) => add('pad', `pad:${p.input}`, p.label, p.detail, i === 0 ? 'Pads held' : null));
-	model.audible.forEach((a, i) => add('audible', `audible:${a.key}`, `Rack ${a.rack} → deck ${a.deck}`, null, i === 0 ? 'Audible' : null));
-	model.counters.forEach((c, i) => add('counter', `counter:${c.id}`, c.label, `peak ${c.peak}`, i === 0 ? 'Counters' : null));
+	model.audible.forEach((a, i) =>
+		add('audible', `audible:${a.key}`, `Rack ${a.rack} → deck ${a.deck}`, null, i === 0 ? 'Audible' : null)
+	);
+	model.counters.forEach((c, i) =>
+		add('counter', `counter:${c.id}`, c.label, `peak ${c.peak}`, i === 0 ? 'Counters' : null)
+	);
 	return { rows, height: y + BAR_ROW_HEIGHT };
 }

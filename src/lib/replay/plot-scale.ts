@@ -57,7 +57,9 @@ export function beatGrid(view: View, tempo: number, width: number, minGap = 10):
 	return lines;
 }
 
-const TICK_STEPS = [1, 2, 5, 10, 20, 50, 100, 200, 500, 1000, 2000, 5000, 10_000, 15_000, 30_000, 60_000, 120_000, 300_000, 600_000];
+const TICK_STEPS = [
+	1, 2, 5, 10, 20, 50, 100, 200, 500, 1000, 2000, 5000, 10_000, 15_000, 30_000, 60_000, 120_000, 300_000, 600_000
+];
 
 /** Time labels at least `minGap` px apart, on round numbers of ms. */
 export function timeTicks(view: View, width: number, minGap = 80): number[] {

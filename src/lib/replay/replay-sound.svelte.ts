@@ -8,7 +8,12 @@ import type { AudioRig } from '$lib/audio/rig';
 export type SoundStatus = 'off' | 'starting' | 'on' | 'unavailable';
 
 /** The demo loop each deck plays in a replay (a recording keeps no audio of its own decks). */
-export const REPLAY_LOOPS: Record<DeckId, string> = { A: 'glass-steps', B: 'night-bus', C: 'porch-light', D: 'coil-run' };
+export const REPLAY_LOOPS: Record<DeckId, string> = {
+	A: 'glass-steps',
+	B: 'night-bus',
+	C: 'porch-light',
+	D: 'coil-run'
+};
 
 const silent = (state: RigState): RigState => ({
 	...state,

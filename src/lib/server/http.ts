@@ -31,7 +31,11 @@ export async function readJson<T>(request: Request, schema: z.ZodType<T>, limit 
 	const parsed = schema.safeParse(body);
 	if (!parsed.success) {
 		const problems = parsed.error.issues.map((i) => ({ path: i.path.join('.'), message: i.message }));
-		throw new Refusal(400, `The request was refused: ${problems[0].path ? problems[0].path + ': ' : ''}${problems[0].message}`, problems);
+		throw new Refusal(
+			400,
+			`The request was refused: ${problems[0].path ? problems[0].path + ': ' : ''}${problems[0].message}`,
+			problems
+		);
 	}
 	return parsed.data;
 }

@@ -53,7 +53,10 @@ export async function listMappings(db: Database, userId: string): Promise<Mappin
 		.select({ m: mapping, owner: user.name, document: mappingVersion.document })
 		.from(mapping)
 		.innerJoin(user, eq(user.id, mapping.ownerId))
-		.innerJoin(mappingVersion, and(eq(mappingVersion.mappingId, mapping.id), eq(mappingVersion.version, mapping.currentVersion)))
+		.innerJoin(
+			mappingVersion,
+			and(eq(mappingVersion.mappingId, mapping.id), eq(mappingVersion.version, mapping.currentVersion))
+		)
 		.where(or(eq(mapping.ownerId, userId), eq(mapping.visibility, 'public')))
 		.orderBy(desc(mapping.updatedAt));
 	return rows.map((r) => summarize(r.m, r.owner, userId, r.document as Mapping));
@@ -92,7 +95,9 @@ export function checkDocument(input: unknown): Mapping {
 	throw new Refusal(
 		400,
 		`This is not a valid mapping document: ${first.path ? first.path + ': ' : ''}${first.message}` +
-			(parsed.problems.length > 1 ? ` (and ${parsed.problems.length - 1} more problem${parsed.problems.length > 2 ? 's' : ''})` : ''),
+			(parsed.problems.length > 1
+				? ` (and ${parsed.problems.length - 1} more problem${parsed.problems.length > 2 ? 's' : ''})`
+				: ''),
 		parsed.problems
 	);
 }
@@ -106,16 +111,22 @@ export async function createMapping(
 	const id = randomUUID();
 	const name = input.name?.trim() || document.name;
 	await db.transaction(async (tx) => {
-		await tx.insert(mapping).values({ id, ownerId, name, visibility: input.visibility ?? 'private', demoSlug: input.demoSlug });
-		await tx.insert(mappingVersion).values({ id: randomUUID(), mappingId: id, version: 1, document: { ...document, name } });
+		await tx
+			.insert(mapping)
+			.values({ id, ownerId, name, visibility: input.visibility ?? 'private', demoSlug: input.demoSlug });
+		await tx
+			.insert(mappingVersion)
+			.values({ id: randomUUID(), mappingId: id, version: 1, document: { ...document, name } });
 	});
 	return id;
 }
 
 async function owned(db: Database, userId: string, id: string) {
 	const [row] = await db.select().from(mapping).where(eq(mapping.id, id));
-	if (!row || (row.ownerId !== userId && row.visibility !== 'public')) throw new Refusal(404, 'That mapping does not exist, or it is private to someone else.');
-	if (row.ownerId !== userId) throw new Refusal(403, 'Only the owner can change this mapping. Fork it to make your own copy.');
+	if (!row || (row.ownerId !== userId && row.visibility !== 'public'))
+		throw new Refusal(404, 'That mapping does not exist, or it is private to someone else.');
+	if (row.ownerId !== userId)
+		throw new Refusal(403, 'Only the owner can change this mapping. Fork it to make your own copy.');
 	return row;
 }
 
@@ -147,7 +158,12 @@ export async function seedDemoMappings(db: Database, ownerId: string): Promise<n
 	for (const demo of DEMO_MAPPINGS) {
 		const [exists] = await db.select({ id: mapping.id }).from(mapping).where(eq(mapping.demoSlug, demo.slug));
 		if (exists) continue;
-		await createMapping(db, ownerId, { document: demo.mapping, name: demo.title, visibility: 'public', demoSlug: demo.slug });
+		await createMapping(db, ownerId, {
+			document: demo.mapping,
+			name: demo.title,
+			visibility: 'public',
+			demoSlug: demo.slug
+		});
 		created++;
 	}
 	return created;

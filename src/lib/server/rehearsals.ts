@@ -1,7 +1,15 @@
 // Recorded sessions. Events arrive in numbered chunks while a rehearsal runs; a chunk's number is
 // its identity, so a resent chunk (after a lost answer, a reload or an offline queue) is stored
 // once. The session document is the chunks in number order.
-import { analyze, parseSession, sessionEvents, sessionSchema, type Mapping, type SessionDocument, type SessionEvent } from '$lib/engine';
+import {
+	analyze,
+	parseSession,
+	sessionEvents,
+	sessionSchema,
+	type Mapping,
+	type SessionDocument,
+	type SessionEvent
+} from '$lib/engine';
 import { and, asc, desc, eq, sql } from 'drizzle-orm';
 import { randomUUID } from 'node:crypto';
 import { z } from 'zod';
@@ -28,7 +36,8 @@ export type RehearsalRow = typeof rehearsal.$inferSelect;
 
 async function mine(db: Database, userId: string, id: string): Promise<RehearsalRow> {
 	const [row] = await db.select().from(rehearsal).where(eq(rehearsal.id, id));
-	if (!row || row.ownerId !== userId) throw new Refusal(404, 'That session does not exist, or it belongs to someone else.');
+	if (!row || row.ownerId !== userId)
+		throw new Refusal(404, 'That session does not exist, or it belongs to someone else.');
 	return row;
 }
 
@@ -54,27 +63,33 @@ export async function createRehearsal(db: Database, userId: string, input: z.inf
 export async function appendChunk(db: Database, userId: string, id: string, chunk: z.infer<typeof chunkSchema>) {
 	await mine(db, userId, id);
 	const last = chunk.events.at(-1)?.t ?? 0;
-	const stored = await serialWrite(() => db.transaction(async (tx) => {
-		const inserted = await tx
-			.insert(rehearsalChunk)
-			.values({ rehearsalId: id, seq: chunk.seq, events: chunk.events, eventCount: chunk.events.length })
-			.onConflictDoNothing()
-			.returning({ seq: rehearsalChunk.seq });
-		if (inserted.length === 0) return false;
-		await tx
-			.update(rehearsal)
-			.set({
-				eventCount: sql`${rehearsal.eventCount} + ${chunk.events.length}`,
-				durationMs: sql`max(${rehearsal.durationMs}, ${last})`
-			})
-			.where(eq(rehearsal.id, id));
-		return true;
-	}));
+	const stored = await serialWrite(() =>
+		db.transaction(async (tx) => {
+			const inserted = await tx
+				.insert(rehearsalChunk)
+				.values({ rehearsalId: id, seq: chunk.seq, events: chunk.events, eventCount: chunk.events.length })
+				.onConflictDoNothing()
+				.returning({ seq: rehearsalChunk.seq });
+			if (inserted.length === 0) return false;
+			await tx
+				.update(rehearsal)
+				.set({
+					eventCount: sql`${rehearsal.eventCount} + ${chunk.events.length}`,
+					durationMs: sql`max(${rehearsal.durationMs}, ${last})`
+				})
+				.where(eq(rehearsal.id, id));
+			return true;
+		})
+	);
 	const [row] = await db.select({ eventCount: rehearsal.eventCount }).from(rehearsal).where(eq(rehearsal.id, id));
 	return { stored, duplicate: !stored, eventCount: row.eventCount };
 }
 
-export async function sessionDocument(db: Database, userId: string, id: string): Promise<{ row: RehearsalRow; session: SessionDocument }> {
+export async function sessionDocument(
+	db: Database,
+	userId: string,
+	id: string
+): Promise<{ row: RehearsalRow; session: SessionDocument }> {
 	const row = await mine(db, userId, id);
 	const chunks = await db
 		.select({ events: rehearsalChunk.events })
@@ -89,7 +104,10 @@ export async function sessionDocument(db: Database, userId: string, id: string):
 
 async function pinnedMapping(db: Database, row: RehearsalRow): Promise<Mapping | null> {
 	if (!row.mappingVersionId) return null;
-	const [v] = await db.select({ document: mappingVersion.document }).from(mappingVersion).where(eq(mappingVersion.id, row.mappingVersionId));
+	const [v] = await db
+		.select({ document: mappingVersion.document })
+		.from(mappingVersion)
+		.where(eq(mappingVersion.id, row.mappingVersionId));
 	return (v?.document as Mapping | undefined) ?? null;
 }
 
@@ -119,7 +137,9 @@ export async function listRehearsals(db: Database, userId: string, filter = '') 
 		.where(
 			and(
 				eq(rehearsal.ownerId, userId),
-				q ? sql`(${rehearsal.name} like ${pattern} escape '\\' or ${rehearsal.mappingName} like ${pattern} escape '\\')` : undefined
+				q
+					? sql`(${rehearsal.name} like ${pattern} escape '\\' or ${rehearsal.mappingName} like ${pattern} escape '\\')`
+					: undefined
 			)
 		)
 		.orderBy(desc(rehearsal.createdAt));
@@ -141,7 +161,11 @@ export async function importSession(db: Database, userId: string, mappingId: str
 	const parsed = parseSession(input);
 	if (!parsed.ok) {
 		const first = parsed.problems[0];
-		throw new Refusal(400, `This is not a valid session file: ${first.path ? first.path + ': ' : ''}${first.message}`, parsed.problems);
+		throw new Refusal(
+			400,
+			`This is not a valid session file: ${first.path ? first.path + ': ' : ''}${first.message}`,
+			parsed.problems
+		);
 	}
 	const { id } = await createRehearsal(db, userId, {
 		mappingId,
@@ -151,7 +175,10 @@ export async function importSession(db: Database, userId: string, mappingId: str
 	});
 	const events = parsed.session.events;
 	for (let seq = 0; seq * MAX_CHUNK_EVENTS < Math.max(events.length, 1); seq++) {
-		await appendChunk(db, userId, id, { seq, events: events.slice(seq * MAX_CHUNK_EVENTS, (seq + 1) * MAX_CHUNK_EVENTS) });
+		await appendChunk(db, userId, id, {
+			seq,
+			events: events.slice(seq * MAX_CHUNK_EVENTS, (seq + 1) * MAX_CHUNK_EVENTS)
+		});
 	}
 	await finishRehearsal(db, userId, id);
 	return id;
@@ -162,5 +189,3 @@ export async function attachAudio(db: Database, userId: string, id: string, file
 	await db.update(rehearsal).set({ audioFile: file, audioType: type, audioBytes: bytes }).where(eq(rehearsal.id, id));
 	return row.audioFile;
 }
-
-

@@ -20,7 +20,8 @@ export const MAX_AUDIO_BYTES = 200 * 1024 * 1024;
 export function audioExtension(contentType: string | null): string {
 	const type = (contentType ?? '').split(';')[0].trim().toLowerCase();
 	const ext = AUDIO_TYPES[type];
-	if (!ext) throw new Refusal(415, `Audio must be WebM, Ogg, WAV, MP4 or MP3; this upload is "${type || 'of no type'}".`);
+	if (!ext)
+		throw new Refusal(415, `Audio must be WebM, Ogg, WAV, MP4 or MP3; this upload is "${type || 'of no type'}".`);
 	return ext;
 }
 

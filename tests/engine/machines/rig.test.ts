@@ -64,18 +64,20 @@ describe('rig actor', () => {
 
 	it('gives the same changes as replay for any play, quantized or not', () => {
 		const ids = ['pad-13', 'pad-14', 'pad-15', 'pad-16', 'pad-1', 'pad-5'];
-		const events = fc.array(fc.tuple(fc.nat(ids.length - 1), fc.integer({ min: 0, max: 300 })), { maxLength: 40 }).map((moves) => {
-			const held = new Set<string>();
-			let t = 0;
-			return moves.map(([k, gap]): InputEvent => {
-				t += gap;
-				const input = ids[k];
-				const type = held.has(input) ? 'release' : 'press';
-				if (type === 'release') held.delete(input);
-				else held.add(input);
-				return { t, input, type };
+		const events = fc
+			.array(fc.tuple(fc.nat(ids.length - 1), fc.integer({ min: 0, max: 300 })), { maxLength: 40 })
+			.map((moves) => {
+				const held = new Set<string>();
+				let t = 0;
+				return moves.map(([k, gap]): InputEvent => {
+					t += gap;
+					const input = ids[k];
+					const type = held.has(input) ? 'release' : 'press';
+					if (type === 'release') held.delete(input);
+					else held.add(input);
+					return { t, input, type };
+				});
 			});
-		});
 		fc.assert(
 			fc.property(fc.constantFrom(demoMapping('two-deck'), quantized('1/8'), quantized('1/16')), events, (m, evs) => {
 				const live = playLive(m, evs);

@@ -1,4 +1,4 @@
-import { Delay, Gain, Merge, connect, connectSeries } from 'tone';
+import { Delay, Gain, Merge, connectSeries } from 'tone';
 import { seededNoise } from '../measure';
 import { RackEffect, rampParam, type EffectOptions } from './effect';
 

@@ -8,7 +8,11 @@ import { z } from 'zod';
 import type { Actions } from './$types';
 
 const ChangePassword = z
-	.object({ currentPassword: z.string().min(1, { error: 'Enter your current password.' }), newPassword: password, confirm: z.string() })
+	.object({
+		currentPassword: z.string().min(1, { error: 'Enter your current password.' }),
+		newPassword: password,
+		confirm: z.string()
+	})
 	.refine((v) => v.newPassword === v.confirm, { path: ['confirm'], error: 'The two new passwords differ.' });
 
 export const actions: Actions = {
@@ -18,7 +22,11 @@ export const actions: Actions = {
 		if (!parsed.ok) return fail(400, { errors: parsed.errors, message: parsed.message });
 		try {
 			await auth.api.changePassword({
-				body: { currentPassword: parsed.data.currentPassword, newPassword: parsed.data.newPassword, revokeOtherSessions: true },
+				body: {
+					currentPassword: parsed.data.currentPassword,
+					newPassword: parsed.data.newPassword,
+					revokeOtherSessions: true
+				},
 				headers: request.headers
 			});
 		} catch (e) {
@@ -28,7 +36,11 @@ export const actions: Actions = {
 			}
 			throw e;
 		}
-		await sendMail({ to: user.email, subject: 'Your Padproof password was changed', text: 'If this was not you, tell your school admin at once.\n' });
+		await sendMail({
+			to: user.email,
+			subject: 'Your Padproof password was changed',
+			text: 'If this was not you, tell your school admin at once.\n'
+		});
 		return { changed: true };
 	}
 };

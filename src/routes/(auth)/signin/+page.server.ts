@@ -20,7 +20,11 @@ export const actions: Actions = {
 			await auth.api.signInEmail({ body: parsed.data, headers: request.headers });
 		} catch (e) {
 			if (e instanceof APIError) {
-				return fail(400, { email: parsed.data.email, errors: {} as FieldErrors, message: 'That email and password do not match an account.' });
+				return fail(400, {
+					email: parsed.data.email,
+					errors: {} as FieldErrors,
+					message: 'That email and password do not match an account.'
+				});
 			}
 			throw e;
 		}

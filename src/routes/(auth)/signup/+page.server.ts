@@ -9,7 +9,11 @@ import type { Actions } from './$types';
 
 const SignUp = z
 	.object({
-		name: z.string().trim().min(1, { error: 'Tell us your name.' }).max(80, { error: 'Keep the name under 80 characters.' }),
+		name: z
+			.string()
+			.trim()
+			.min(1, { error: 'Tell us your name.' })
+			.max(80, { error: 'Keep the name under 80 characters.' }),
 		email,
 		password,
 		confirm: z.string()

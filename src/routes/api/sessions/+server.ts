@@ -13,7 +13,11 @@ export const GET: RequestHandler = async ({ locals, url }) => {
 	}
 };
 
-const Import = z.object({ mappingId: z.string().min(1), name: z.string().trim().max(120).optional(), session: z.unknown() });
+const Import = z.object({
+	mappingId: z.string().min(1),
+	name: z.string().trim().max(120).optional(),
+	session: z.unknown()
+});
 
 /** Starts a recording, or with `session` in the body saves an imported session document whole. */
 export const POST: RequestHandler = async ({ locals, request }) => {

@@ -17,11 +17,22 @@ async function againstMapping(userId: string, id: string | null, versionParam: s
 	if (!id) return { against: null, againstProblem: null };
 	const version = versionParam === null ? undefined : Number(versionParam);
 	if (version !== undefined && !(Number.isInteger(version) && version > 0)) {
-		return { against: null, againstProblem: `“${versionParam}” is not a mapping version: versions are whole numbers from 1.` };
+		return {
+			against: null,
+			againstProblem: `“${versionParam}” is not a mapping version: versions are whole numbers from 1.`
+		};
 	}
 	try {
 		const m = await getMapping(db, userId, id, version);
-		return { against: { id: m.id, name: m.name, version: m.versions.find((v) => v.id === m.versionId)!.version, document: m.document }, againstProblem: null };
+		return {
+			against: {
+				id: m.id,
+				name: m.name,
+				version: m.versions.find((v) => v.id === m.versionId)!.version,
+				document: m.document
+			},
+			againstProblem: null
+		};
 	} catch (e) {
 		if (e instanceof Refusal) return { against: null, againstProblem: e.message };
 		throw e;

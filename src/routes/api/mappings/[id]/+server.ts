@@ -11,7 +11,9 @@ export const GET: RequestHandler = async ({ locals, params, url }) => {
 		const detail = await getMapping(db, signedIn(locals).id, params.id, version ? Number(version) : undefined);
 		if (url.searchParams.has('download')) {
 			const file = detail.name.replace(/[^\w.-]+/g, '-').replace(/^-|-$/g, '') || 'mapping';
-			return json(detail.document, { headers: { 'content-disposition': `attachment; filename="${file}.mapping.json"` } });
+			return json(detail.document, {
+				headers: { 'content-disposition': `attachment; filename="${file}.mapping.json"` }
+			});
 		}
 		return json({ mapping: detail });
 	} catch (e) {

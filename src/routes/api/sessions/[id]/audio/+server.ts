@@ -13,10 +13,12 @@ export const PUT: RequestHandler = async ({ locals, params, request }) => {
 		const type = request.headers.get('content-type');
 		const ext = audioExtension(type);
 		const declared = Number(request.headers.get('content-length') ?? 0);
-		if (declared > MAX_AUDIO_BYTES) throw new Refusal(413, 'The recording is larger than 200 MB; record a shorter take.');
+		if (declared > MAX_AUDIO_BYTES)
+			throw new Refusal(413, 'The recording is larger than 200 MB; record a shorter take.');
 		const data = new Uint8Array(await request.arrayBuffer());
 		if (data.byteLength === 0) throw new Refusal(400, 'The recording is empty.');
-		if (data.byteLength > MAX_AUDIO_BYTES) throw new Refusal(413, 'The recording is larger than 200 MB; record a shorter take.');
+		if (data.byteLength > MAX_AUDIO_BYTES)
+			throw new Refusal(413, 'The recording is larger than 200 MB; record a shorter take.');
 		const name = await saveUpload(`${params.id}.${ext}`, data);
 		const previous = await attachAudio(db, user.id, params.id, name, type!.split(';')[0], data.byteLength);
 		if (previous && previous !== name) await removeUpload(previous);
@@ -31,7 +33,9 @@ export const GET: RequestHandler = async ({ locals, params }) => {
 		const { row } = await sessionDocument(db, signedIn(locals).id, params.id);
 		const file = row.audioFile ? streamUpload(row.audioFile) : null;
 		if (!file) throw new Refusal(404, 'This session has no audio recording.');
-		return new Response(file.stream, { headers: { 'content-type': row.audioType ?? 'application/octet-stream', 'content-length': String(file.size) } });
+		return new Response(file.stream, {
+			headers: { 'content-type': row.audioType ?? 'application/octet-stream', 'content-length': String(file.size) }
+		});
 	} catch (e) {
 		return refusalResponse(e);
 	}
