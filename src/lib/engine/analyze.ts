@@ -38,9 +38,10 @@ function silencing(c: RigChange, rack: number, deck: DeckId | null): string | nu
 	if (k === 'on' && c.to === false) return `turned rack ${rack} off`;
 	if (k === 'routes' && c.to === false && (!deck || p[3] === deck)) return `routed rack ${rack} away from deck ${p[3]}`;
 	if (k === 'mix' && c.to === 0) return `set rack ${rack}'s mix to 0`;
-	if (k === 'mode') return `switched rack ${rack} to ${String(c.to)} mode`;
-	if (k === 'slots' && p[4] === 'effect' && c.to === null) return `emptied slot ${Number(p[3]) + 1} of rack ${rack}`;
-	if (k === 'slots' && p[4] === 'on' && c.to === false) return `switched slot ${Number(p[3]) + 1} of rack ${rack} off`;
+	if (k === 'chain' && p[4] === 'effect' && c.to === null)
+		return `emptied position ${Number(p[3]) + 1} of rack ${rack}'s chain`;
+	if (k === 'chain' && p[4] === 'on' && c.to === false)
+		return `switched position ${Number(p[3]) + 1} of rack ${rack}'s chain off`;
 	return null;
 }
 
@@ -51,9 +52,7 @@ export function whySilent(s: RigState, rack: number, deck: DeckId): string {
 	if (!r.routes[deck]) return `rack ${rack} isn't routed to deck ${deck}`;
 	if (!s.decks[deck].playing) return `deck ${deck} isn't playing`;
 	if (!(r.mix > 0)) return `rack ${rack}'s mix is at 0`;
-	return r.mode === 'focus'
-		? `rack ${rack}'s focus effect isn't chosen and on`
-		: `no slot of rack ${rack} is on with an effect`;
+	return `no position of rack ${rack}'s chain is on with an effect`;
 }
 
 function message(

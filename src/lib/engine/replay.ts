@@ -6,7 +6,7 @@ import { applyEvent, initialRigState, isAudible } from './rig';
 import { clockFor, scheduleEvents } from './schedule';
 import {
 	DECK_IDS,
-	RACK_COUNT,
+	MAX_RACKS,
 	type AudibleInterval,
 	type InputEvent,
 	type Mapping,
@@ -44,11 +44,11 @@ export function runEvents(
 /** Opens and closes audible intervals as states go by; shared by replay and inspection. */
 export class AudibleTracker {
 	readonly intervals: AudibleInterval[] = [];
-	#open: (AudibleInterval | null)[] = new Array(RACK_COUNT * DECK_IDS.length).fill(null);
+	#open: (AudibleInterval | null)[] = new Array(MAX_RACKS * DECK_IDS.length).fill(null);
 	constructor(private readonly decks: number) {}
 
 	update(state: RigState, at: number, index: number): void {
-		for (let r = 0; r < RACK_COUNT; r++)
+		for (let r = 0; r < state.racks.length; r++)
 			for (let d = 0; d < this.decks; d++) {
 				const slot = r * DECK_IDS.length + d;
 				const now = isAudible(state, r + 1, DECK_IDS[d]);

@@ -89,10 +89,10 @@ class Search {
 		codes.push(held);
 		for (let i = 0; i < s.racks.length; i++) {
 			const r = s.racks[i];
-			let x = (r.on ? 1 : 0) | (r.mode === 'focus' ? 2 : 0) | (r.mix > 0 ? 4 : 0);
-			for (let k = 0; k < r.slots.length; k++)
-				x |= ((r.slots[k].effect !== null ? 1 : 0) | (r.slots[k].on ? 2 : 0)) << (3 + 2 * k);
-			for (let k = 0; k < DECK_IDS.length; k++) x |= (r.routes[DECK_IDS[k]] ? 1 : 0) << (9 + k);
+			let x = (r.on ? 1 : 0) | (r.mix > 0 ? 2 : 0);
+			for (let k = 0; k < r.chain.length; k++)
+				x |= ((r.chain[k].effect !== null ? 1 : 0) | (r.chain[k].on ? 2 : 0)) << (2 + 2 * k);
+			for (let k = 0; k < DECK_IDS.length; k++) x |= (r.routes[DECK_IDS[k]] ? 1 : 0) << (10 + k);
 			codes.push(x, this.ownerCode[w.toucher[i] + 1]);
 		}
 		let decks = 0;

@@ -10,7 +10,7 @@
 //   drift    no pad that counts a counter is held, yet the counter is off its rest value.
 // Clash and clamp are events, not states: `clashInputs` and the clamps applyEvent returns.
 import { isAudible } from './rig';
-import { DECK_IDS, RACK_COUNT, type Binding, type DeckId, type Mapping, type RigState } from './types';
+import { DECK_IDS, MAX_RACKS, type Binding, type DeckId, type Mapping, type RigState } from './types';
 
 export interface Unit {
 	key: string;
@@ -121,7 +121,7 @@ function buildRules(m: Mapping): Rules {
 		unitsByInput.set(b.input, list);
 		for (const r of racks) for (const d of b.deck ? [b.deck] : DECK_IDS) add(claims, `${r}|${d}`, b.input);
 	});
-	const touchers = Array.from({ length: RACK_COUNT }, () => new Map<string, number>());
+	const touchers = Array.from({ length: MAX_RACKS }, () => new Map<string, number>());
 	m.bindings.forEach((b, bi) => {
 		for (const s of b.steps)
 			if ('rack' in s.target && !touchers[s.target.rack - 1].has(b.input)) touchers[s.target.rack - 1].set(b.input, bi);
@@ -167,7 +167,7 @@ function buildRules(m: Mapping): Rules {
 }
 
 export function initialWatch(rules: Rules): WatchState {
-	return { used: new Uint8Array(rules.units.length), toucher: new Int32Array(RACK_COUNT).fill(-1) };
+	return { used: new Uint8Array(rules.units.length), toucher: new Int32Array(MAX_RACKS).fill(-1) };
 }
 
 function isUsed(this: WatchState, u: number): boolean {
@@ -182,7 +182,7 @@ export function observe(rules: Rules, w: WatchState, input: string, type: string
 		next = { used: w.used.slice(), toucher: w.toucher };
 		for (const u of units) next.used[u] = 1;
 	}
-	for (let r = 0; r < RACK_COUNT; r++) {
+	for (let r = 0; r < MAX_RACKS; r++) {
 		if (!(touched & (1 << r))) continue;
 		const b = rules.touchers[r].get(input);
 		if (b === undefined || next.toucher[r] === b) continue;
@@ -246,7 +246,7 @@ export function conditions(rules: Rules, s: RigState, w: WatchState): Condition[
 				});
 			}
 	}
-	for (let r = 1; r <= RACK_COUNT; r++) {
+	for (let r = 1; r <= MAX_RACKS; r++) {
 		const b = w.toucher[r - 1];
 		const target = b >= 0 ? rules.bindings[b].deck : undefined;
 		if (!target) continue;
