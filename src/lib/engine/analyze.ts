@@ -12,7 +12,6 @@ import {
 	inputName,
 	observe,
 	rulesFor,
-	touchedRacks,
 	type Condition,
 	type Rules,
 	type WatchState
@@ -160,7 +159,7 @@ export function analyze(mapping: Mapping, events: readonly InputEvent[], options
 					message: clampMessage(mapping, e, cl)
 				});
 			const seen = watch;
-			watch = observe(rules, watch, e.input, e.type, touchedRacks(result.changes));
+			watch = observe(rules, watch, e.input, e.type, result.setUp);
 			// Same state and same watch: the same conditions hold, nothing opens or closes.
 			if (!result.changes.length && watch === seen) return;
 			const now = conditions(rules, result.state, watch);

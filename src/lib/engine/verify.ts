@@ -8,7 +8,7 @@
 // (steps write constants; guards read counters only), so states differing only there behave alike.
 import { analyze } from './analyze';
 import { applyEvent, initialRigState } from './rig';
-import { conditions, initialWatch, observe, rulesFor, touchedRacks, type Rules, type WatchState } from './watch';
+import { conditions, initialWatch, observe, rulesFor, type Rules, type WatchState } from './watch';
 import { DECK_IDS, type Finding, type InputEvent, type Mapping, type RigState } from './types';
 
 export interface VerifyProgress {
@@ -123,7 +123,7 @@ class Search {
 				const input = this.inputs[k];
 				const type = s.held.includes(input) ? 'release' : 'press';
 				const r = applyEvent(this.mapping, s, { t: depth, input, type }, depth - 1);
-				const w = observe(this.rules, this.watches[i], input, type, touchedRacks(r.changes));
+				const w = observe(this.rules, this.watches[i], input, type, r.setUp);
 				const broken =
 					r.clamps.length > 0 ||
 					(type === 'press' && this.clashing[k]) ||

@@ -4,15 +4,7 @@
 // have landed so far, and its findings are shown. So the room never re-states a finding rule and
 // shows exactly what a replay of the same events would.
 import { analyze, type Finding, type InputEvent, type Mapping, type RigChangesEmitted } from '$lib/engine';
-import {
-	conditions,
-	initialWatch,
-	inputName,
-	observe,
-	rulesFor,
-	touchedRacks,
-	type WatchState
-} from '$lib/engine/watch';
+import { conditions, initialWatch, inputName, observe, rulesFor, type WatchState } from '$lib/engine/watch';
 import type { Clock } from '$lib/engine';
 
 export interface LiveFinding extends Finding {
@@ -49,7 +41,7 @@ export class LiveFindings {
 	/** Follows one landed event; `landed` are the events applied so far, in their received order. */
 	follow(emitted: RigChangesEmitted, event: InputEvent, landed: () => readonly InputEvent[], clock: Clock): void {
 		const rules = rulesFor(this.#mapping);
-		this.#watch = observe(rules, this.#watch, event.input, event.type, touchedRacks(emitted.changes));
+		this.#watch = observe(rules, this.#watch, event.input, event.type, emitted.setUp);
 		const keys = conditions(rules, emitted.state, this.#watch)
 			.map((c) => c.key)
 			.join('\n');
