@@ -8,7 +8,7 @@ import { replay } from '$lib/engine/replay';
 import { lintMapping } from '$lib/engine/lint';
 import { verifyGroupSync } from '$lib/engine/verify';
 import { ACTIONS, DECK_IDS, EFFECT_IDS, type InputEvent, type Mapping, type Step } from '$lib/engine/types';
-import { legatoMapping, pads } from './factories';
+import { legatoMapping, pads, racks } from './factories';
 
 /** Random but physically possible play on the given pads: a pad is released only while held. */
 const play = (ids: string[], maxLength = 60) =>
@@ -27,19 +27,13 @@ const play = (ids: string[], maxLength = 60) =>
 		return events;
 	});
 
+const rackNo = fc.integer({ min: 1, max: 4 });
+const position = fc.integer({ min: 1, max: 4 });
 const target = fc.oneof(
-	fc.record({ kind: fc.constantFrom('rack-on', 'rack-mode', 'rack-mix'), rack: fc.integer({ min: 1, max: 4 }) }),
-	fc.record({ kind: fc.constant('rack-route'), rack: fc.integer({ min: 1, max: 4 }), deck: fc.constantFrom('A', 'B') }),
-	fc.record({
-		kind: fc.constantFrom('slot-effect', 'slot-on', 'slot-amount'),
-		rack: fc.integer({ min: 1, max: 4 }),
-		slot: fc.integer({ min: 1, max: 3 })
-	}),
-	fc.record({
-		kind: fc.constant('focus-param'),
-		rack: fc.integer({ min: 1, max: 4 }),
-		param: fc.integer({ min: 1, max: 3 })
-	}),
+	fc.record({ kind: fc.constantFrom('rack-on', 'chain', 'rack-mix'), rack: rackNo }),
+	fc.record({ kind: fc.constant('rack-route'), rack: rackNo, deck: fc.constantFrom('A', 'B') }),
+	fc.record({ kind: fc.constantFrom('effect', 'effect-on'), rack: rackNo, position }),
+	fc.record({ kind: fc.constant('effect-param'), rack: rackNo, position, param: fc.integer({ min: 1, max: 3 }) }),
 	fc.record({ kind: fc.constant('deck-play'), deck: fc.constantFrom('A', 'B') }),
 	fc.record({ kind: fc.constant('counter'), counter: fc.constantFrom('c1', 'c2') })
 ) as fc.Arbitrary<Step['target']>;
@@ -52,6 +46,7 @@ const step: fc.Arbitrary<Step> = fc
 		unit: fc.double({ min: 0, max: 1, noNaN: true }),
 		n: fc.integer({ min: 0, max: 3 }),
 		effect: fc.constantFrom(null, ...EFFECT_IDS),
+		chain: fc.array(fc.constantFrom(...EFFECT_IDS), { minLength: 1, maxLength: 4 }),
 		phase: fc.constantFrom('press', 'release'),
 		guards: fc.array(
 			fc.record({
@@ -62,19 +57,19 @@ const step: fc.Arbitrary<Step> = fc
 			{ maxLength: 2 }
 		)
 	})
-	.map(({ target, pick, unit, n, effect, phase, guards }): Step => {
+	.map(({ target, pick, unit, n, effect, chain, phase, guards }): Step => {
 		const k = target.kind;
 		const base = { target, phase, guards } as const;
 		if (k === 'counter')
 			return pick === 'set'
 				? { ...base, action: 'set', value: n }
 				: { ...base, action: pick === 'momentary' || pick === 'toggle' ? 'count-up' : pick };
-		if (k === 'rack-on' || k === 'rack-route' || k === 'slot-on' || k === 'deck-play')
+		if (k === 'rack-on' || k === 'rack-route' || k === 'effect-on' || k === 'deck-play')
 			return pick === 'momentary' || pick === 'toggle'
 				? { ...base, action: pick }
 				: { ...base, action: 'set', value: n % 2 };
-		if (k === 'rack-mode') return { ...base, action: 'set', value: n % 2 ? 'chain' : 'focus' };
-		if (k === 'slot-effect') return { ...base, action: 'set', value: effect };
+		if (k === 'chain') return { ...base, action: 'set', value: chain };
+		if (k === 'effect') return { ...base, action: 'set', value: effect };
 		return { ...base, action: 'set', value: unit };
 	});
 
@@ -93,10 +88,11 @@ const mapping: fc.Arbitrary<Mapping> = fc
 		)
 	})
 	.map(({ bindings }) => ({
-		version: 1 as const,
+		version: 2 as const,
 		name: 'random',
 		decks: 2 as const,
 		profile: { name: 'grid', inputs: pads(4) },
+		racks: racks(4),
 		counters: [
 			{ id: 'c1', max: 3, rest: 0 },
 			{ id: 'c2', max: 15, rest: 1 }
@@ -133,8 +129,11 @@ describe('properties', () => {
 			fc.property(mapping, play(ids, 30), (m, events) => {
 				const t = replay(m, events);
 				expect(t.order).toHaveLength(events.length);
-				expect(Array.isArray(analyze(m, events))).toBe(true);
-				expect(Array.isArray(lintMapping(m))).toBe(true);
+				for (const f of analyze(m, events)) {
+					expect(f.event).toBeGreaterThanOrEqual(0);
+					expect(f.event).toBeLessThan(events.length);
+				}
+				for (const f of lintMapping(m)) expect(m.bindings[f.binding].input).toBe(f.input);
 				expect(['proved', 'broken']).toContain(verifyGroupSync(m, ['p1', 'p2']).status);
 			}),
 			{ numRuns: 200 }
