@@ -214,7 +214,15 @@ export interface Timeline {
 	order: number[];
 }
 
-export const FINDING_KINDS = ['dropout', 'stuck', 'leak', 'clash', 'drift', 'clamp'] as const;
+export const FINDING_KINDS = [
+	'dropout',
+	'stuck-on',
+	'bleed',
+	'clash',
+	'count-left-over',
+	'count-overflow',
+	'takeover'
+] as const;
 export type FindingKind = (typeof FINDING_KINDS)[number];
 
 export interface Finding {
