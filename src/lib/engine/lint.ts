@@ -6,6 +6,7 @@
 // is below the number of pads that count it), legato-without-counter (a group sharing momentary on/off with no held-pad counter),
 // unbalanced-count (count-up without a count-down on release), idle-guard (a guard on a counter
 // nothing changes), dead-step (a step that can never run).
+import { guardHolds } from './rig';
 import { inputName, rulesFor } from './watch';
 import { DECK_IDS, type Binding, type Guard, type Mapping, type Step } from './types';
 
@@ -164,25 +165,8 @@ function counts(m: Mapping, b: Binding, bi: number, push: Push, name: Name) {
 }
 
 function satisfiable(guards: Guard[], max: number): boolean {
-	for (let v = 0; v <= max; v++) if (guards.every((g) => test(v, g))) return true;
+	for (let v = 0; v <= max; v++) if (guards.every((g) => guardHolds(g.op, v, g.value))) return true;
 	return false;
-}
-
-function test(v: number, g: Guard): boolean {
-	switch (g.op) {
-		case '=':
-			return v === g.value;
-		case '!=':
-			return v !== g.value;
-		case '<':
-			return v < g.value;
-		case '<=':
-			return v <= g.value;
-		case '>':
-			return v > g.value;
-		case '>=':
-			return v >= g.value;
-	}
 }
 
 function deadSteps(m: Mapping, b: Binding, bi: number, push: Push, name: Name) {
