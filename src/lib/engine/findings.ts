@@ -49,8 +49,8 @@ const OLD_KINDS: Record<string, FindingKind> = {
 
 /** A stored kind, old or current, as today's kind; null for something that is no finding kind. */
 export function findingKind(stored: string): FindingKind | null {
-	if (stored in FINDING_INFO) return stored as FindingKind;
-	return OLD_KINDS[stored] ?? null;
+	if (Object.hasOwn(FINDING_INFO, stored)) return stored as FindingKind;
+	return Object.hasOwn(OLD_KINDS, stored) ? OLD_KINDS[stored] : null;
 }
 
 /** A finding read back from storage, its kind brought up to today's name; null if it has none. */

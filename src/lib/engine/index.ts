@@ -18,7 +18,7 @@ export {
 export { beatAt, constantClock, gridLine, tempoAt, timeAtBeat, withTempo, type TempoChange } from './clock';
 export { FINDING_INFO, findingKind, numberedFinding, storedFinding, type FindingInfo } from './findings';
 export { applyEvent, applyEvents, chainSounds, guardHolds, initialRigState, initialRack, isAudible } from './rig';
-export { inputName, racksOf } from './watch';
+export { addressText, bindingName, inputName, racksOf } from './watch';
 export { clockFor, engageAt, scheduleEvents, DEFAULT_TEMPO, type Clock, type Scheduled } from './schedule';
 export { replay, runEvents, AudibleTracker, type ReplayOptions } from './replay';
 export { analyze, whySilent } from './analyze';

@@ -7,7 +7,7 @@
 // unbalanced-count (count-up without a count-down on release), idle-guard (a guard on a counter
 // nothing changes), dead-step (a step that can never run).
 import { guardHolds } from './rig';
-import { inputName, rulesFor } from './watch';
+import { bindingName, inputName, rulesFor } from './watch';
 import { DECK_IDS, type Binding, type Guard, type Mapping, type Step } from './types';
 
 export const LINT_RULES = [
@@ -35,7 +35,7 @@ const isOff = (s: Step) => s.action === 'set' && s.value === 0;
 
 export function lintMapping(m: Mapping): LintFinding[] {
 	const out: LintFinding[] = [];
-	const name = (b: Binding) => b.label ?? inputName(m, b.input);
+	const name = (b: Binding) => bindingName(m, b);
 	const push = (rule: LintRule, bi: number, step: number | null, message: string) =>
 		out.push({ rule, binding: bi, step, input: m.bindings[bi].input, message });
 	clashes(m, push, name);

@@ -4,6 +4,7 @@
 import {
 	analyze,
 	initialRigState,
+	inputName,
 	replay,
 	scheduleEvents,
 	sessionEvents,
@@ -65,8 +66,9 @@ export interface ReplayModel {
 	duration: number; // ms shown on the plot
 }
 
+/** An input's name as the engine's messages give it (one naming rule: `inputName`). */
 export function inputLabel(mapping: Mapping | null, input: string): string {
-	return mapping?.profile.inputs.find((i) => i.id === input)?.label ?? input;
+	return mapping ? inputName(mapping, input) : input;
 }
 
 export function padLanes(mapping: Mapping | null, events: readonly InputEvent[]): PadLane[] {
