@@ -59,6 +59,8 @@ describe('properties', () => {
 				for (const f of analyze(m, events)) {
 					expect(f.event).toBeGreaterThanOrEqual(0);
 					expect(f.event).toBeLessThan(events.length);
+					if (f.end !== null) expect(f.end).toBeGreaterThanOrEqual(f.start);
+					expect(f.message.length).toBeGreaterThan(10);
 				}
 				for (const f of lintMapping(m)) expect(m.bindings[f.binding].input).toBe(f.input);
 				expect(['proved', 'broken']).toContain(verifyGroupSync(m, ['p1', 'p2']).status);

@@ -183,7 +183,7 @@ export function analyze(mapping: Mapping, events: readonly InputEvent[], options
 					rack: t.rack,
 					message: takeoverMessage(mapping, e, at, t)
 				});
-			watch = observe(rules, watch, e.input, e.type, bits.touched, result.state, bits.reshaped);
+			watch = observe(rules, watch, e.input, e.type, result.setUp, result.state, bits.reshaped);
 			// Same state and same watch: the same conditions hold, nothing opens or closes.
 			if (!result.changes.length && watch === seen) return;
 			const now = conditions(rules, result.state, watch);

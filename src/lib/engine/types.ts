@@ -191,6 +191,8 @@ export interface StepResult {
 	state: RigState;
 	changes: RigChange[];
 	clamps: Clamp[];
+	/** Bit per rack (0-based) that a press or release ran a step on: that binding set the rack up now. */
+	setUp: number;
 }
 
 /** One stretch of time in which a rack is audible on a deck (DESIGN.md §4.4). */

@@ -174,7 +174,7 @@ class Search {
 				const r = applyEvent(this.mapping, s, { t: depth, input, type }, depth - 1);
 				const bits = rackBits(r.changes);
 				const before = this.watches[i];
-				const w = observe(this.rules, before, input, type, bits.touched, r.state, bits.reshaped);
+				const w = observe(this.rules, before, input, type, r.setUp, r.state, bits.reshaped);
 				const broken =
 					r.clamps.length > 0 ||
 					(type === 'press' && this.clashing[k]) ||

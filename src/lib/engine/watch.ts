@@ -285,13 +285,6 @@ export function rackBits(changes: RigChange[]): { touched: number; reshaped: num
 	return { touched, reshaped };
 }
 
-/** Bit per rack (0-based) that a change list touched. */
-export function touchedRacks(changes: { path: string }[]): number {
-	let bits = 0;
-	for (const c of changes) if (c.path.startsWith('racks.')) bits |= 1 << Number(c.path[6]);
-	return bits;
-}
-
 // Plain loops below: this runs for every event of a replay and every edge of the verifier.
 function heldAny(held: string[], inputs: Set<string>): boolean {
 	for (let i = 0; i < held.length; i++) if (inputs.has(held[i])) return true;

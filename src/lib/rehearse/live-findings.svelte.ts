@@ -57,7 +57,7 @@ export class LiveFindings {
 		const rules = rulesFor(this.#mapping);
 		const bits = rackBits(emitted.changes);
 		const took = takeovers(rules, this.#watch, event.input, event.type, bits.reshaped).length > 0;
-		this.#watch = observe(rules, this.#watch, event.input, event.type, bits.touched, emitted.state, bits.reshaped);
+		this.#watch = observe(rules, this.#watch, event.input, event.type, emitted.setUp, emitted.state, bits.reshaped);
 		const keys = conditions(rules, emitted.state, this.#watch)
 			.map((c) => c.key)
 			.join('\n');

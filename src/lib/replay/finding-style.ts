@@ -13,7 +13,7 @@ export const KIND_FILL: Record<FindingKind, string> = {
 	clash: 'fill-cue-300',
 	'count-left-over': 'fill-cue-400',
 	'count-overflow': 'fill-cue-600',
-	takeover: 'fill-ink-300'
+	takeover: 'fill-ink-100'
 };
 
 export const KIND_BADGE: Record<FindingKind, string> = {
@@ -23,5 +23,5 @@ export const KIND_BADGE: Record<FindingKind, string> = {
 	clash: 'bg-cue-300 text-stage-950',
 	'count-left-over': 'bg-cue-400 text-stage-950',
 	'count-overflow': 'bg-cue-600 text-ink-100',
-	takeover: 'bg-ink-300 text-stage-950'
+	takeover: 'bg-ink-100 text-stage-950'
 };

@@ -39,6 +39,7 @@ export interface RigChangesEmitted {
 	at: number;
 	changes: RigChange[];
 	clamps: Clamp[];
+	setUp: number; // racks this event set up (StepResult.setUp)
 	state: RigState;
 }
 
@@ -66,7 +67,15 @@ function landDue(ctx: RigContext, now: number, emit: Emit): { state: RigState; p
 function land(mapping: Mapping, state: RigState, p: Pending, emit: Emit): RigState {
 	const e = p.at === p.event.t ? p.event : { ...p.event, t: p.at };
 	const r = applyEvent(mapping, state, e, p.index);
-	emit({ type: 'changes', index: p.index, at: p.at, changes: r.changes, clamps: r.clamps, state: r.state });
+	emit({
+		type: 'changes',
+		index: p.index,
+		at: p.at,
+		changes: r.changes,
+		clamps: r.clamps,
+		setUp: r.setUp,
+		state: r.state
+	});
 	return r.state;
 }
 
