@@ -24,9 +24,12 @@ describe('new passwords', () => {
 		expect(passwordProblem('marlowines1', ['Ines Marlow', 'ines@mixlab.example'])).toMatch(/your name/);
 	});
 
-	it.each([['loop-station-9'], ['first-pass-1'], ['cobalt tram violin'], ['Zoë-spielt-Pads-7']])('accepts %j', (value) => {
-		expect(passwordProblem(value)).toBeNull();
-	});
+	it.each([['loop-station-9'], ['first-pass-1'], ['cobalt tram violin'], ['Zoë-spielt-Pads-7']])(
+		'accepts %j',
+		(value) => {
+			expect(passwordProblem(value)).toBeNull();
+		}
+	);
 
 	it('accepts the published demo password, so seeded demo accounts can also set it again', () => {
 		expect(DEMO_PASSWORD.length).toBeGreaterThanOrEqual(MIN_PASSWORD);

@@ -26,7 +26,10 @@ const APP_WORDS = ['padproof', 'mixlab'];
 export function passwordProblem(password: string, personal: string[] = []): string | null {
 	if (password.length < MIN_PASSWORD) return `Use at least ${MIN_PASSWORD} characters for the password.`;
 	if (password.length > MAX_PASSWORD) return `Use at most ${MAX_PASSWORD} characters for the password.`;
-	const inputs = [...APP_WORDS, ...personal.flatMap((p) => p.toLowerCase().split(/[\s@.+_-]+/)).filter((w) => w.length > 2)];
+	const inputs = [
+		...APP_WORDS,
+		...personal.flatMap((p) => p.toLowerCase().split(/[\s@.+_-]+/)).filter((w) => w.length > 2)
+	];
 	const result = strength(password, inputs);
 	if (result.score >= MIN_SCORE) return null;
 	const leansOnYou = result.sequence.some((s) => s.pattern === 'dictionary' && s.dictionaryName === 'userInputs');
