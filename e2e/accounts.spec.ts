@@ -181,16 +181,22 @@ test('next= only ever leads inside the app', async ({ page }) => {
 
 test('the auth API refuses bad bodies in the app’s error shape', async ({ request, baseURL }) => {
 	const headers = { origin: baseURL!, 'content-type': 'application/json' };
-	const malformed = await request.post('/api/auth/sign-up/email', { headers, data: '{"name": "x", ' });
+	const malformed = await request.post('/api/auth/sign-up/email', { headers, data: Buffer.from('{"name": "x", ') });
 	expect(malformed.status()).toBe(400);
 	expect(await malformed.json()).toEqual({ error: 'The request body is not valid JSON.', problems: [] });
 
 	const huge = await request.post('/api/auth/sign-up/email', {
 		headers,
-		data: JSON.stringify({ name: 'x'.repeat(100_000), email: 'big@example.com', password: 'harbor-violet-93' })
+		data: Buffer.from(
+			JSON.stringify({ name: 'x'.repeat(100_000), email: 'big@example.com', password: 'harbor-violet-93' })
+		)
 	});
 	expect(huge.status()).toBe(413);
 	expect((await huge.json()).error).toMatch(/too large/);
+
+	const list = await request.post('/api/auth/sign-in/email', { headers, data: Buffer.from('[1, 2]') });
+	expect(list.status()).toBe(400);
+	expect((await list.json()).error).toBe('The request body must be a JSON object.');
 
 	const weak = await request.post('/api/auth/sign-up/email', {
 		headers,

@@ -11,7 +11,7 @@ import { Refusal } from './http';
 import { passwordProblem } from './passwords';
 import { throttle } from './throttle-instance';
 import type { AttemptKind } from './throttle';
-import { currentPassword, email, password, personName } from './validate';
+import { currentPassword, email, newPasswordText, password, personName } from './validate';
 
 /** No auth request needs more; a sign-up with the longest allowed fields is under 1 KiB. */
 export const AUTH_BODY_LIMIT = 16 * 1024;
@@ -34,7 +34,7 @@ const GATES: Record<string, Gate> = {
 	},
 	'/sign-up/email': {
 		body: z
-			.object({ name: personName, email, password, rememberMe: z.boolean().optional(), callbackURL })
+			.object({ name: personName, email, password: newPasswordText, rememberMe: z.boolean().optional(), callbackURL })
 			.superRefine((v, ctx) => {
 				const problem = passwordProblem(v.password, [v.name, v.email]);
 				if (problem) ctx.addIssue({ code: 'custom', path: ['password'], message: problem });
@@ -108,6 +108,9 @@ export async function authGate(event: RequestEvent): Promise<Response> {
 				body = JSON.parse(text);
 			} catch {
 				return refuse(400, 'The request body is not valid JSON.');
+			}
+			if (typeof body !== 'object' || body === null || Array.isArray(body)) {
+				return refuse(400, 'The request body must be a JSON object.');
 			}
 		}
 		const gate = GATES[path];

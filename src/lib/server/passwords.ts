@@ -23,12 +23,15 @@ function strength(password: string, userInputs: string[]) {
 const APP_WORDS = ['padproof', 'mixlab'];
 
 /** Why a new password is refused, in plain words, or null when it is fine. */
-export function passwordProblem(password: string, personal: string[] = []): string | null {
+export function passwordProblem(password: string, personal: unknown[] = []): string | null {
+	if (typeof password !== 'string') return 'Choose a password.';
 	if (password.length < MIN_PASSWORD) return `Use at least ${MIN_PASSWORD} characters for the password.`;
 	if (password.length > MAX_PASSWORD) return `Use at most ${MAX_PASSWORD} characters for the password.`;
 	const inputs = [
 		...APP_WORDS,
-		...personal.flatMap((p) => p.toLowerCase().split(/[\s@.+_-]+/)).filter((w) => w.length > 2)
+		...personal
+			.flatMap((p) => (typeof p === 'string' ? p : '').toLowerCase().split(/[\s@.+_-]+/))
+			.filter((w) => w.length > 2)
 	];
 	const result = strength(password, inputs);
 	if (result.score >= MIN_SCORE) return null;

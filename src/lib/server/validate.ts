@@ -37,6 +37,9 @@ export const password = z.string({ error: 'Choose a password.' }).superRefine((v
 	if (problem) ctx.addIssue({ code: 'custom', message: problem });
 });
 
+/** A new password judged later together with the person's name and email (see passwordProblem). */
+export const newPasswordText = z.string({ error: 'Choose a password.' });
+
 /** A password being typed in to be checked: only bounded, never judged. */
 export const currentPassword = z
 	.string({ error: 'Enter your password.' })

@@ -3,18 +3,20 @@ import { authCode, refuseAttempt } from '$lib/server/attempts';
 import { auth } from '$lib/server/auth';
 import { safeNext } from '$lib/server/next';
 import { passwordProblem } from '$lib/server/passwords';
-import { email, formObject, password, personName, validate, type FieldErrors } from '$lib/server/validate';
+import { email, formObject, newPasswordText, personName, validate, type FieldErrors } from '$lib/server/validate';
 import { fail, redirect } from '@sveltejs/kit';
 import { APIError } from 'better-auth/api';
 import { z } from 'zod';
 import type { Actions } from './$types';
 
-const SignUp = z.object({ name: personName, email, password, confirm: z.string() }).superRefine((v, ctx) => {
-	const problem = passwordProblem(v.password, [v.name, v.email]);
-	if (problem) ctx.addIssue({ code: 'custom', path: ['password'], message: problem });
-	if (v.password !== v.confirm)
-		ctx.addIssue({ code: 'custom', path: ['confirm'], message: 'The two passwords differ.' });
-});
+const SignUp = z
+	.object({ name: personName, email, password: newPasswordText, confirm: z.string() })
+	.superRefine((v, ctx) => {
+		const problem = passwordProblem(v.password, [v.name, v.email]);
+		if (problem) ctx.addIssue({ code: 'custom', path: ['password'], message: problem });
+		if (v.password !== v.confirm)
+			ctx.addIssue({ code: 'custom', path: ['confirm'], message: 'The two passwords differ.' });
+	});
 
 export const actions: Actions = {
 	default: async (event) => {
