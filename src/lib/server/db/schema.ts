@@ -100,3 +100,14 @@ export const rehearsalChunk = sqliteTable(
 	},
 	(t) => [primaryKey({ columns: [t.rehearsalId, t.seq] })]
 );
+
+/**
+ * Counters of the sign-in throttle (see `src/lib/server/throttle.ts`): one row per bucket, e.g.
+ * `account:kai@mixlab.example` or `address:203.0.113.7`, kept in the database so that several app
+ * instances share them.
+ */
+export const authThrottle = sqliteTable('auth_throttle', {
+	bucket: text().primaryKey(),
+	hits: integer().notNull(),
+	windowStartedAt: integer().notNull()
+});
