@@ -77,6 +77,69 @@ describe('recording a session in chunks', () => {
 	});
 });
 
+describe('what a recording refuses', () => {
+	it('refuses a chunk after the session was finished with 409, and keeps the session as it was', async () => {
+		const { id } = await createRehearsal(t.db, t.kai, { mappingId: await demoId('Two-deck pad set'), tempo: 120 });
+		await appendChunk(t.db, t.kai, id, { seq: 0, events: [press(10, 1), release(200, 1)] });
+		await finishRehearsal(t.db, t.kai, id);
+		await expect(appendChunk(t.db, t.kai, id, { seq: 1, events: [press(300, 2)] })).rejects.toMatchObject({
+			status: 409,
+			message: expect.stringMatching(/finished/)
+		});
+		const { row, session } = await sessionDocument(t.db, t.kai, id);
+		expect(session.events).toHaveLength(2);
+		expect(row.eventCount).toBe(2);
+	});
+
+	it('answers an identical resend after finishing as a duplicate, not a refusal', async () => {
+		const { id } = await createRehearsal(t.db, t.kai, { mappingId: await demoId('Two-deck pad set'), tempo: 120 });
+		const chunk = { seq: 0, events: [press(10, 1), release(200, 1)] };
+		await appendChunk(t.db, t.kai, id, chunk);
+		await finishRehearsal(t.db, t.kai, id);
+		expect(await appendChunk(t.db, t.kai, id, chunk)).toMatchObject({ duplicate: true, eventCount: 2 });
+	});
+
+	it('refuses a resent chunk number with different content with 409 instead of dropping it silently', async () => {
+		const { id } = await createRehearsal(t.db, t.kai, { mappingId: await demoId('Two-deck pad set'), tempo: 120 });
+		await appendChunk(t.db, t.kai, id, { seq: 0, events: [press(10, 1), release(200, 1)] });
+		await expect(appendChunk(t.db, t.kai, id, { seq: 0, events: [press(10, 1), release(250, 1)] })).rejects.toMatchObject(
+			{ status: 409, message: expect.stringMatching(/chunk 0/) }
+		);
+		expect((await sessionDocument(t.db, t.kai, id)).session.events.map((e) => e.t)).toEqual([10, 200]);
+	});
+
+	it('refuses events past the per-session limit with 413 and keeps what was recorded', async () => {
+		process.env.PADPROOF_MAX_SESSION_EVENTS = '3';
+		try {
+			const { id } = await createRehearsal(t.db, t.kai, { mappingId: await demoId('Two-deck pad set'), tempo: 120 });
+			await appendChunk(t.db, t.kai, id, { seq: 0, events: [press(10, 1), release(200, 1)] });
+			await expect(
+				appendChunk(t.db, t.kai, id, { seq: 1, events: [press(300, 2), release(400, 2)] })
+			).rejects.toMatchObject({ status: 413, message: expect.stringMatching(/at most 3 events/) });
+			expect((await sessionDocument(t.db, t.kai, id)).row.eventCount).toBe(2);
+		} finally {
+			delete process.env.PADPROOF_MAX_SESSION_EVENTS;
+		}
+	});
+
+	it('refuses a new session past the per-person limit with 409', async () => {
+		process.env.PADPROOF_MAX_SESSIONS = '2';
+		try {
+			const mappingId = await demoId('Two-deck pad set');
+			await createRehearsal(t.db, t.kai, { mappingId, tempo: 120 });
+			await createRehearsal(t.db, t.kai, { mappingId, tempo: 120 });
+			await expect(createRehearsal(t.db, t.kai, { mappingId, tempo: 120 })).rejects.toMatchObject({
+				status: 409,
+				message: expect.stringMatching(/2 sessions/)
+			});
+			// Someone else is not held back by Kai's library.
+			await expect(createRehearsal(t.db, t.lena, { mappingId, tempo: 120 })).resolves.toHaveProperty('id');
+		} finally {
+			delete process.env.PADPROOF_MAX_SESSIONS;
+		}
+	});
+});
+
 describe('importing a session document', () => {
 	it('refuses a bad file with a readable reason and stores nothing', async () => {
 		const mappingId = await demoId('Two-deck pad set');
