@@ -102,9 +102,9 @@ describe('what a recording refuses', () => {
 	it('refuses a resent chunk number with different content with 409 instead of dropping it silently', async () => {
 		const { id } = await createRehearsal(t.db, t.kai, { mappingId: await demoId('Two-deck pad set'), tempo: 120 });
 		await appendChunk(t.db, t.kai, id, { seq: 0, events: [press(10, 1), release(200, 1)] });
-		await expect(appendChunk(t.db, t.kai, id, { seq: 0, events: [press(10, 1), release(250, 1)] })).rejects.toMatchObject(
-			{ status: 409, message: expect.stringMatching(/chunk 0/) }
-		);
+		await expect(
+			appendChunk(t.db, t.kai, id, { seq: 0, events: [press(10, 1), release(250, 1)] })
+		).rejects.toMatchObject({ status: 409, message: expect.stringMatching(/chunk 0/) });
 		expect((await sessionDocument(t.db, t.kai, id)).session.events.map((e) => e.t)).toEqual([10, 200]);
 	});
 

@@ -36,6 +36,9 @@ export async function prepareDatabase(client: Client, db: Database, migrationsFo
 		await client.execute('PRAGMA foreign_keys = ON');
 	}
 	await migrate(db, { migrationsFolder });
+	// Versions saved before lint counts were kept get theirs once, here, not on every listing.
+	const { backfillLintCounts } = await import('../mappings');
+	await backfillLintCounts(db);
 }
 
 export const { client, db } = openDatabase();
