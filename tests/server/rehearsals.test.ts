@@ -12,6 +12,11 @@ import {
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { demoDatabase } from './factories';
 
+import { stopAnalysisWorkers } from '$lib/server/analysis/pool';
+import { afterAll } from 'vitest';
+
+// The first finish starts an analysis worker (through tsx in tests: a few seconds).
+afterAll(() => stopAnalysisWorkers());
 let t: Awaited<ReturnType<typeof demoDatabase>>;
 beforeEach(async () => (t = await demoDatabase()));
 afterEach(() => t.close());
@@ -63,7 +68,7 @@ describe('recording a session in chunks', () => {
 		await expect(appendChunk(t.db, t.lena, id, { seq: 0, events: [] })).rejects.toMatchObject({ status: 404 });
 	});
 
-	it('counts the dropout of the broken row when the session is finished', async () => {
+	it('counts the dropout of the broken row when the session is finished', { timeout: 60_000 }, async () => {
 		// Broken stutter row (top row pads 13–16): press 13, press 14, release 13 cuts the effect
 		// while 14 is held — the dropout the held-pad counter exists to prevent (common practice).
 		const { id } = await createRehearsal(t.db, t.kai, { mappingId: await demoId('Broken stutter row'), tempo: 120 });
@@ -78,20 +83,24 @@ describe('recording a session in chunks', () => {
 });
 
 describe('what a recording refuses', () => {
-	it('refuses a chunk after the session was finished with 409, and keeps the session as it was', async () => {
-		const { id } = await createRehearsal(t.db, t.kai, { mappingId: await demoId('Two-deck pad set'), tempo: 120 });
-		await appendChunk(t.db, t.kai, id, { seq: 0, events: [press(10, 1), release(200, 1)] });
-		await finishRehearsal(t.db, t.kai, id);
-		await expect(appendChunk(t.db, t.kai, id, { seq: 1, events: [press(300, 2)] })).rejects.toMatchObject({
-			status: 409,
-			message: expect.stringMatching(/finished/)
-		});
-		const { row, session } = await sessionDocument(t.db, t.kai, id);
-		expect(session.events).toHaveLength(2);
-		expect(row.eventCount).toBe(2);
-	});
+	it(
+		'refuses a chunk after the session was finished with 409, and keeps the session as it was',
+		{ timeout: 60_000 },
+		async () => {
+			const { id } = await createRehearsal(t.db, t.kai, { mappingId: await demoId('Two-deck pad set'), tempo: 120 });
+			await appendChunk(t.db, t.kai, id, { seq: 0, events: [press(10, 1), release(200, 1)] });
+			await finishRehearsal(t.db, t.kai, id);
+			await expect(appendChunk(t.db, t.kai, id, { seq: 1, events: [press(300, 2)] })).rejects.toMatchObject({
+				status: 409,
+				message: expect.stringMatching(/finished/)
+			});
+			const { row, session } = await sessionDocument(t.db, t.kai, id);
+			expect(session.events).toHaveLength(2);
+			expect(row.eventCount).toBe(2);
+		}
+	);
 
-	it('answers an identical resend after finishing as a duplicate, not a refusal', async () => {
+	it('answers an identical resend after finishing as a duplicate, not a refusal', { timeout: 60_000 }, async () => {
 		const { id } = await createRehearsal(t.db, t.kai, { mappingId: await demoId('Two-deck pad set'), tempo: 120 });
 		const chunk = { seq: 0, events: [press(10, 1), release(200, 1)] };
 		await appendChunk(t.db, t.kai, id, chunk);
@@ -151,7 +160,7 @@ describe('importing a session document', () => {
 		expect(await listRehearsals(t.db, t.kai)).toEqual([]);
 	});
 
-	it('saves a good file as a finished session', async () => {
+	it('saves a good file as a finished session', { timeout: 60_000 }, async () => {
 		const mappingId = await demoId('Two-deck pad set');
 		const doc = { version: 1, tempo: 124, startedAt: '2026-12-01T20:00:00Z', events: [press(500, 1), release(900, 1)] };
 		const id = await importSession(t.db, t.kai, mappingId, doc, 'From file');

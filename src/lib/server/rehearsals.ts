@@ -1,18 +1,11 @@
 // Recorded sessions. Events arrive in numbered chunks while a rehearsal runs; a chunk's number is
 // its identity, so a resent chunk (after a lost answer, a reload or an offline queue) is stored
 // once. The session document is the chunks in number order.
-import {
-	analyze,
-	parseSession,
-	sessionEvents,
-	sessionSchema,
-	type Mapping,
-	type SessionDocument,
-	type SessionEvent
-} from '$lib/engine';
+import { parseSession, sessionSchema, type Mapping, type SessionDocument, type SessionEvent } from '$lib/engine';
 import { and, asc, count, desc, eq, sql } from 'drizzle-orm';
 import { randomUUID } from 'node:crypto';
 import { z } from 'zod';
+import { countFindingsOffThread } from './analysis/pool';
 import { limits } from './config';
 import { serialWrite, type Database } from './db';
 import { mappingVersion, rehearsal, rehearsalChunk } from './db/schema';
@@ -141,16 +134,24 @@ async function pinnedMapping(db: Database, row: RehearsalRow): Promise<Mapping |
 	return (v?.document as Mapping | undefined) ?? null;
 }
 
-/** Ends the recording: names it, counts its findings against the mapping version it was played with. */
+/**
+ * Ends the recording: closes it to new chunks, names it, and counts its findings against the
+ * mapping version it was played with — in a worker thread, so that a long take does not hold up
+ * other people's requests. Finishing again counts again.
+ */
 export async function finishRehearsal(db: Database, userId: string, id: string, name?: string) {
-	const { row, session } = await sessionDocument(db, userId, id);
-	const doc = await pinnedMapping(db, row);
-	const findings = doc ? analyze(doc, sessionEvents(session).events, { tempo: session.tempo }) : [];
-	await db
-		.update(rehearsal)
-		.set({ status: 'saved', name: name?.trim() || row.name, findingCount: findings.length })
-		.where(eq(rehearsal.id, id));
-	return { findings: findings.length };
+	const row = await mine(db, userId, id);
+	await serialWrite(() =>
+		db
+			.update(rehearsal)
+			.set({ status: 'saved', name: name?.trim() || row.name })
+			.where(eq(rehearsal.id, id))
+	);
+	const { session } = await sessionDocument(db, userId, id);
+	const mapping = await pinnedMapping(db, row);
+	const findings = mapping ? await countFindingsOffThread({ mapping, session }) : 0;
+	await serialWrite(() => db.update(rehearsal).set({ findingCount: findings }).where(eq(rehearsal.id, id)));
+	return { findings };
 }
 
 export async function renameRehearsal(db: Database, userId: string, id: string, name: string) {
