@@ -34,6 +34,7 @@ export type RoomRecorder = Pick<
 	| 'offline'
 	| 'error'
 	| 'uploadProgress'
+	| 'refused'
 	| 'elapsed'
 	| 'start'
 	| 'record'

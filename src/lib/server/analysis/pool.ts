@@ -13,6 +13,10 @@ interface Slot {
 function threads(): number {
 	const set = Number(process.env.PADPROOF_ANALYSIS_THREADS);
 	if (Number.isInteger(set) && set >= 0) return set;
+	// Under `vite dev` this module is TypeScript served by Vite; a worker could only load it through
+	// a TypeScript loader (slow to start), so development analyses on the request thread. The built
+	// app and the tests (which do load it through tsx) use workers.
+	if (import.meta.url.endsWith('.ts') && !process.env.VITEST) return 0;
 	return Math.max(1, Math.min(4, availableParallelism() - 1));
 }
 
