@@ -128,15 +128,13 @@ export async function createMapping(
 		await tx
 			.insert(mapping)
 			.values({ id, ownerId, name, visibility: input.visibility ?? 'private', demoSlug: input.demoSlug });
-		await tx
-			.insert(mappingVersion)
-			.values({
-				id: randomUUID(),
-				mappingId: id,
-				version: 1,
-				document: { ...document, name },
-				lintCount: lintMapping(document).length
-			});
+		await tx.insert(mappingVersion).values({
+			id: randomUUID(),
+			mappingId: id,
+			version: 1,
+			document: { ...document, name },
+			lintCount: lintMapping(document).length
+		});
 	});
 	return id;
 }

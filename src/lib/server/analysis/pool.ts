@@ -80,6 +80,11 @@ export async function countFindingsOffThread(job: AnalysisJob): Promise<number> 
 	}) as Promise<number>;
 }
 
+/** Starts the workers ahead of the first finish (a worker takes a moment to load the engine). */
+export async function warmAnalysisWorkers(): Promise<void> {
+	while (slots.length < threads()) slots.push(await spawn());
+}
+
 /** Stops the workers (tests and tools that want to exit at once). */
 export async function stopAnalysisWorkers(): Promise<void> {
 	const stopping = slots.map((s) => s.worker.terminate());

@@ -1,9 +1,9 @@
 import { db } from '$lib/server/db';
+import { changeSessionBody } from '$lib/server/api-schemas';
 import { readJson, refusalResponse, signedIn } from '$lib/server/http';
 import { deleteRehearsal, finishRehearsal, renameRehearsal, sessionDocument } from '$lib/server/rehearsals';
 import { removeUpload } from '$lib/server/storage';
 import { json } from '@sveltejs/kit';
-import { z } from 'zod';
 import type { RequestHandler } from './$types';
 
 /** The session document (our format, version 1), as the export and the command-line tool read it. */
@@ -21,12 +21,10 @@ export const GET: RequestHandler = async ({ locals, params, url }) => {
 	}
 };
 
-const Change = z.object({ name: z.string().trim().min(1).max(120).optional(), finish: z.boolean().optional() });
-
 export const PATCH: RequestHandler = async ({ locals, params, request }) => {
 	try {
 		const user = signedIn(locals);
-		const body = await readJson(request, Change);
+		const body = await readJson(request, changeSessionBody);
 		if (body.finish) return json(await finishRehearsal(db, user.id, params.id, body.name));
 		if (body.name) await renameRehearsal(db, user.id, params.id, body.name);
 		return json({ ok: true });
