@@ -247,7 +247,6 @@ const ROUTES: Row[] = [
 let as: Record<Person, APIRequestContext>;
 let fixtures: Fixtures;
 
-
 test.beforeAll(async () => {
 	as = await everyone();
 	const document = await demoDocument(as.student);

@@ -12,7 +12,6 @@ const RUNS = Number(process.env.BAD_INPUT_RUNS ?? 60);
 let kai: APIRequestContext;
 let ids: { mapping: string; publicMapping: string; session: string; recording: string };
 
-
 test.beforeAll(async () => {
 	kai = await apiAs(DEMO.student);
 	const document = await demoDocument(kai);

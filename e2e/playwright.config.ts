@@ -63,7 +63,7 @@ export default defineConfig({
 		command: process.env.E2E_DEV ? `npx vite dev --port ${port} --strictPort` : 'npm run build && node build',
 		cwd: '..',
 		url: origin,
-		timeout: 480_000, // a build on a busy 2-core machine can take minutes
+		timeout: 480_000,
 		reuseExistingServer: false,
 		env
 	}

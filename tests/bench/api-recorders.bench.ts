@@ -21,7 +21,7 @@ const ACCOUNTS = ['kai', 'lena', 'omar', 'tomas', 'ines'].map((n) => `${n}@mixla
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, Math.max(0, ms)));
 
 async function waitFor(url: string) {
-	for (let i = 0; i < 300; i++) {
+	for (let i = 0; i < 900; i++) {
 		try {
 			if ((await fetch(url)).ok) return;
 		} catch {

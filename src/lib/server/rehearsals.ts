@@ -10,7 +10,7 @@ import { limits } from './config';
 import { serialWrite, type Database } from './db';
 import { mappingVersion, rehearsal, rehearsalChunk } from './db/schema';
 import { Refusal } from './http';
-import { getMapping } from './mappings';
+import { getMapping, storedDocument } from './mappings';
 import { CHUNK_MAX_EVENTS } from '$lib/recorder/limits';
 
 export const chunkSchema = z.object({
@@ -131,7 +131,7 @@ async function pinnedMapping(db: Database, row: RehearsalRow): Promise<Mapping |
 		.select({ document: mappingVersion.document })
 		.from(mappingVersion)
 		.where(eq(mappingVersion.id, row.mappingVersionId));
-	return (v?.document as Mapping | undefined) ?? null;
+	return v ? storedDocument(v.document) : null;
 }
 
 /**
