@@ -5,7 +5,7 @@
 // Lost and doubled events are counted in the database file afterwards.
 import { createClient } from '@libsql/client';
 import { execFileSync, spawn } from 'node:child_process';
-import { existsSync, mkdtempSync, rmSync } from 'node:fs';
+import { existsSync, mkdtempSync, openSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { Figure } from './run';
@@ -65,8 +65,10 @@ export default async function (report: (f: Figure) => void) {
 			PADPROOF_RATE_LIMIT: 'off',
 			NODE_ENV: 'development'
 		},
-		stdio: 'ignore'
+		stdio: ['ignore', 'ignore', openSync(join(dir, 'server.log'), 'w')]
 	});
+	let exited = '';
+	server.on('exit', (code, signal) => (exited = `the server stopped: ${code ?? signal}`));
 	const kill = setTimeout(() => server.kill('SIGKILL'), (SECONDS + 240) * 1000); // bounded in time
 	try {
 		await waitFor(ORIGIN);
@@ -173,6 +175,9 @@ export default async function (report: (f: Figure) => void) {
 		report({ name: 'api.recorders50_errors', value: errors, unit: 'requests' });
 		report({ name: 'api.recorders50_lost_events', value: lost, unit: 'events' });
 		report({ name: 'api.recorders50_doubled_events', value: doubled, unit: 'events' });
+	} catch (e) {
+		console.error(readFileSync(join(dir, 'server.log'), 'utf8').slice(-4000), exited, (e as Error).cause);
+		throw e;
 	} finally {
 		clearTimeout(kill);
 		server.kill('SIGTERM');
