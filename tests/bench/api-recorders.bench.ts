@@ -69,9 +69,10 @@ export default async function (report: (f: Figure) => void) {
 	});
 	let exited = '';
 	server.on('exit', (code, signal) => (exited = `the server stopped: ${code ?? signal}`));
-	const kill = setTimeout(() => server.kill('SIGKILL'), (SECONDS + 240) * 1000); // bounded in time
+	let kill: ReturnType<typeof setTimeout> | undefined;
 	try {
 		await waitFor(ORIGIN);
+		kill = setTimeout(() => server.kill('SIGKILL'), (SECONDS + 240) * 1000); // bounded in time
 		const cookies = await Promise.all(ACCOUNTS.map(signIn));
 		const headersFor = (i: number) => ({
 			'content-type': 'application/json',
