@@ -69,8 +69,16 @@ test('a reload mid-take resumes the recording and loses nothing', async ({ page 
 	await tap(midi, 0, 6);
 	await expect(page.getByTestId('record-events')).toHaveText('12');
 
-	// Reload at once: the last events have not been sent by the 2-second tick yet.
+	// Reload at once: the last events have not been sent by the 2-second tick yet. The browser asks
+	// first (a take is live); the person says yes.
+	const asked = new Promise<string>((resolve) =>
+		page.once('dialog', (dialog) => {
+			resolve(dialog.type());
+			void dialog.accept();
+		})
+	);
 	await page.reload();
+	expect(await asked).toBe('beforeunload');
 	await page.locator('html[data-ready]').waitFor();
 	await expect(page.getByTestId('record-resumed')).toBeVisible({ timeout: 15_000 });
 	await expect(page.getByTestId('midi-status')).toHaveAttribute('data-status', 'ready', { timeout: 15_000 });
@@ -83,6 +91,100 @@ test('a reload mid-take resumes the recording and loses nothing', async ({ page 
 	const velocities = session.events.filter((e) => e.midi?.[0] === NOTE_ON).map((e) => e.midi![2]);
 	expect(velocities).toEqual(Array.from({ length: 10 }, (_, i) => i + 1));
 	expect(session.events).toHaveLength(20);
+});
+
+async function newestSession(page: Page) {
+	const { sessions } = (await (await page.request.get('/api/sessions')).json()) as {
+		sessions: { id: string; status: string }[];
+	};
+	return sessions[0];
+}
+
+test('leaving mid-take by an in-app link asks first, and every event reaches the server', async ({ page }) => {
+	const midi = await installFakeMidi(page, { ports: ONE_CONTROLLER });
+	await openRoom(page, 'Two-deck pad set');
+	const room = page.url();
+	await page.getByTestId('count-in-toggle').uncheck();
+	await page.getByTestId('record-start').click();
+	await expect(page.getByTestId('recorder')).toHaveAttribute('data-status', 'recording');
+	const { id } = await newestSession(page);
+
+	// Play, then follow a link before the 2-second tick sends anything; say "stay".
+	await tap(midi, 0, 3);
+	await expect(page.getByTestId('record-events')).toHaveText('6');
+	let question = '';
+	page.once('dialog', (dialog) => {
+		question = dialog.message();
+		void dialog.dismiss();
+	});
+	await page.locator('main a[href="/mappings"]').first().click();
+	await expect.poll(() => question).toContain('A take is being recorded');
+	expect(page.url()).toBe(room);
+	await expect(page.getByTestId('recorder')).toHaveAttribute('data-status', 'recording');
+
+	// Play on, follow the link again and leave: the unsent events are kept and sent at once.
+	await tap(midi, 3, 4);
+	await expect(page.getByTestId('record-events')).toHaveText('14');
+	page.once('dialog', (dialog) => void dialog.accept());
+	await page.locator('main a[href="/mappings"]').first().click();
+	await page.waitForURL('**/mappings');
+	await expect
+		.poll(
+			async () =>
+				((await (await page.request.get(`/api/sessions/${id}`)).json()) as { events: unknown[] }).events.length
+		)
+		.toBe(14);
+
+	// Back in the room the take goes on with the right count, and it is saved whole, each event once.
+	await open(page, room);
+	await expect(page.getByTestId('record-resumed')).toBeVisible({ timeout: 15_000 });
+	await expect(page.getByTestId('record-events')).toHaveText('14');
+	await expect(page.getByTestId('midi-status')).toHaveAttribute('data-status', 'ready', { timeout: 15_000 });
+	await tap(midi, 7, 3);
+	await expect(page.getByTestId('record-events')).toHaveText('20');
+	await page.getByTestId('record-stop').click();
+	await expect(page.getByTestId('record-saved')).toBeVisible();
+	const session = await savedSession(page);
+	const velocities = session.events.filter((e) => e.midi?.[0] === NOTE_ON).map((e) => e.midi![2]);
+	expect(velocities).toEqual(Array.from({ length: 10 }, (_, i) => i + 1));
+	expect(session.events).toHaveLength(20);
+});
+
+test('a chunk the server refuses is shown, and the take goes on past it', async ({ page }) => {
+	const midi = await installFakeMidi(page, { ports: ONE_CONTROLLER });
+	await openRoom(page, 'Two-deck pad set');
+	await page.getByTestId('count-in-toggle').uncheck();
+	await page.getByTestId('record-start').click();
+	await expect(page.getByTestId('recorder')).toHaveAttribute('data-status', 'recording');
+
+	// The server refuses the first chunk sent (as it would one it cannot take); later ones go through.
+	let refusedOnce = false;
+	await page.route('**/api/sessions/*/chunks', (route) => {
+		if (refusedOnce) return route.continue();
+		refusedOnce = true;
+		return route.fulfill({
+			status: 422,
+			contentType: 'application/json',
+			body: JSON.stringify({ error: 'This part of the take could not be accepted.', problems: [] })
+		});
+	});
+	await tap(midi, 0, 2);
+	await expect(page.getByTestId('record-refused')).toBeVisible({ timeout: 10_000 });
+	const line = page.getByTestId('record-refused-chunk');
+	await expect(line).toHaveText(/^Part 1 \(\d events?\): This part of the take could not be accepted\.$/);
+	const refused = Number((await line.textContent())!.match(/\((\d) event/)![1]);
+	await tap(midi, 2, 3);
+	await expect(page.getByTestId('record-unsent')).toHaveText('waiting to send: 0', { timeout: 10_000 });
+	await page.screenshot({ path: 'test-results/recording-refused.png' });
+	const download = page.waitForEvent('download');
+	await page.getByTestId('record-refused-download').click();
+	expect((await download).suggestedFilename()).toMatch(/\.refused\.json$/);
+
+	await page.getByTestId('record-stop').click();
+	await expect(page.getByTestId('record-saved')).toBeVisible();
+	const session = await savedSession(page);
+	expect(session.events).toHaveLength(10 - refused);
+	await expect(page.getByTestId('record-refused')).toBeVisible();
 });
 
 test('with “record the sound too”, the master output is uploaded with the session', async ({ page }) => {

@@ -1,6 +1,7 @@
 import { building } from '$app/environment';
 import { auth } from '$lib/server/auth';
 import { authGate } from '$lib/server/auth-gate';
+import { warmAnalysisWorkers } from '$lib/server/analysis/pool';
 import { demoEnabled } from '$lib/server/config';
 import { client, db, prepareDatabase } from '$lib/server/db';
 import { seedDemo } from '$lib/server/db/seed';
@@ -10,6 +11,7 @@ import { svelteKitHandler } from 'better-auth/svelte-kit';
 export const init: ServerInit = async () => {
 	await prepareDatabase(client, db);
 	if (demoEnabled()) await seedDemo(db);
+	void warmAnalysisWorkers().catch((e) => console.error('The analysis workers did not start:', e));
 };
 
 export const handle: Handle = async ({ event, resolve }) => {

@@ -1,10 +1,17 @@
 import type { SessionEvent } from '$lib/engine';
+import { CHUNK_MAX_BYTES, CHUNK_MAX_EVENTS } from '$lib/recorder/limits';
 
-/** A stand-in for Padproof's session endpoints with the server's rules: chunks are kept once per number. */
+/**
+ * A stand-in for Padproof's session endpoints with the server's rules: chunks are kept once per
+ * number, a different chunk under a used number and a chunk after "finish" are refused (409),
+ * chunks over the size limits too (413). `refuse(seq)` makes it refuse one chunk number (422).
+ */
 export function fakeServer() {
 	const sessions = new Map<string, { chunks: Map<number, SessionEvent[]>; finished: boolean; name: string }>();
 	let online = true;
 	let posts = 0;
+	const refused = new Set<number>();
+	const bodies: number[] = [];
 	const fetch = async (input: RequestInfo | URL, init?: RequestInit): Promise<Response> => {
 		if (!online) throw new TypeError('Failed to fetch');
 		const url = String(input);
@@ -19,11 +26,18 @@ export function fakeServer() {
 		const chunk = url.match(/^\/api\/sessions\/(\w+)\/chunks$/);
 		if (chunk) {
 			posts++;
+			bodies.push(new TextEncoder().encode(String(init!.body)).length);
 			const s = sessions.get(chunk[1]);
 			if (!s) return reply(404, { error: 'That session does not exist' });
-			const duplicate = s.chunks.has(body.seq);
-			if (!duplicate) s.chunks.set(body.seq, body.events);
-			return reply(200, { stored: !duplicate, duplicate });
+			if (bodies.at(-1)! > CHUNK_MAX_BYTES || body.events.length > CHUNK_MAX_EVENTS)
+				return reply(413, { error: 'The request is too large.', problems: [] });
+			if (refused.has(body.seq)) return reply(422, { error: `Chunk ${body.seq} is not acceptable.`, problems: [] });
+			const kept = s.chunks.get(body.seq);
+			if (kept && JSON.stringify(kept) !== JSON.stringify(body.events))
+				return reply(409, { error: `A different chunk ${body.seq} is kept.`, problems: [] });
+			if (!kept && s.finished) return reply(409, { error: 'This recording is finished.', problems: [] });
+			if (!kept) s.chunks.set(body.seq, body.events);
+			return reply(200, { stored: !kept, duplicate: !!kept });
 		}
 		const finish = url.match(/^\/api\/sessions\/(\w+)$/);
 		if (finish && init?.method === 'PATCH') {
@@ -37,6 +51,11 @@ export function fakeServer() {
 		sessions,
 		get posts() {
 			return posts;
+		},
+		/** Sizes (bytes) of every chunk body posted. */
+		bodies,
+		refuse(seq: number) {
+			refused.add(seq);
 		},
 		setOnline(value: boolean) {
 			online = value;

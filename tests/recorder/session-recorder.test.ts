@@ -1,5 +1,6 @@
 import 'fake-indexeddb/auto';
-import { ChunkQueue, type SyncStore } from '$lib/recorder/chunk-queue';
+import { ChunkQueue, splitEvents, type SyncStore } from '$lib/recorder/chunk-queue';
+import { CHUNK_MAX_EVENTS, CHUNK_TARGET_BYTES } from '$lib/recorder/limits';
 import { SessionRecorder } from '$lib/recorder/session-recorder.svelte';
 import { createStore } from 'idb-keyval';
 import { afterEach, describe, expect, it } from 'vitest';
@@ -156,5 +157,73 @@ describe('SessionRecorder', () => {
 		await recorder.stop();
 		expect(server.events('s1')).toHaveLength(1);
 		expect(server.posts).toBe(2);
+	});
+
+	it('cuts a burst into chunks under the server limits, and all of it arrives', async () => {
+		const server = fakeServer();
+		const recorder = recorderFor(server, `rec-${++stores}`);
+		await recorder.start();
+		const burst = 12_000;
+		for (let i = 0; i < burst; i++)
+			recorder.record({ ...press(i), input: { input: `pad-${1 + (i % 16)}`, type: 'press' } });
+		expect(await recorder.stop()).toEqual({ id: 's1', findings: 0 });
+		expect(server.events('s1')).toHaveLength(burst);
+		expect(Math.max(...server.bodies)).toBeLessThanOrEqual(CHUNK_TARGET_BYTES);
+		expect(server.bodies.length).toBeGreaterThan(burst / CHUNK_MAX_EVENTS);
+	});
+
+	it('does not stall behind a refused chunk: it shows it, keeps it, and sends the next ones', async () => {
+		const server = fakeServer();
+		const recorder = recorderFor(server, `rec-${++stores}`);
+		await recorder.start();
+		server.refuse(1);
+		recorder.record(press(10));
+		await recorder.flushNow(); // chunk 0
+		recorder.record(press(20));
+		recorder.record(press(30));
+		await recorder.flushNow(); // chunk 1: refused
+		recorder.record(press(40));
+		await recorder.flushNow(); // chunk 2
+		expect(server.events('s1').map((e) => e.t)).toEqual([10, 40]);
+		expect(recorder.unsent).toBe(0);
+		expect(recorder.refused).toEqual([
+			{ seq: 1, events: [press(20), press(30)], reason: 'Chunk 1 is not acceptable.' }
+		]);
+		expect(await recorder.stop()).toEqual({ id: 's1', findings: 0 });
+		expect(recorder.refused).toHaveLength(1); // still shown after saving, to download
+	});
+
+	it('keeps the events of a take left by an in-app link and delivers them when the room opens again', async () => {
+		const server = fakeServer();
+		const storeName = `rec-${++stores}`;
+		const first = recorderFor(server, storeName);
+		await first.start();
+		first.record(press(10));
+		await first.flushNow();
+		first.record(press(20));
+		first.record(press(30));
+		first.dispose(); // the room is left by an in-app link: the page stays, the room is unmounted
+		await first.settled();
+		expect(server.events('s1').map((e) => e.t)).toEqual([10, 20, 30]);
+
+		const second = recorderFor(server, storeName);
+		expect(await second.resume()).toBe(true);
+		expect(second.eventCount).toBe(3);
+		second.record(press(40));
+		await second.stop();
+		expect(server.events('s1').map((e) => e.t)).toEqual([10, 20, 30, 40]);
+	});
+});
+
+describe('splitEvents', () => {
+	it('splits by event count and by bytes, keeping order', () => {
+		const events = Array.from({ length: 25 }, (_, i) => press(i));
+		const byCount = splitEvents(events, 10, 1 << 20);
+		expect(byCount.map((c) => c.length)).toEqual([10, 10, 5]);
+		const one = JSON.stringify(events[0]).length;
+		const byBytes = splitEvents(events, 1000, 60 + one * 4);
+		expect(byBytes.every((c) => JSON.stringify({ seq: 999_999_999, events: c }).length <= 60 + one * 4)).toBe(true);
+		expect(byBytes.flat()).toEqual(events);
+		expect(splitEvents([], 10, 100)).toEqual([]);
 	});
 });

@@ -17,6 +17,7 @@ class FakeRecorder implements RoomRecorder {
 	offline = false;
 	error: string | null = null;
 	uploadProgress: number | null = null;
+	refused = [];
 	recorded: Parameters<RoomRecorder['record']>[0][] = [];
 	#startedAt = 0;
 	elapsed = () => (this.status === 'recording' ? now - this.#startedAt : 0);

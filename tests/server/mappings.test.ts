@@ -1,9 +1,12 @@
-import { demoMapping } from '$lib/engine';
+import { demoMapping, lintMapping } from '$lib/engine';
+import { mappingVersion } from '$lib/server/db/schema';
+import { eq } from 'drizzle-orm';
 import { Refusal } from '$lib/server/http';
 import {
 	createMapping,
 	deleteMapping,
 	getMapping,
+	backfillLintCounts,
 	listMappings,
 	saveVersion,
 	seedDemoMappings
@@ -57,5 +60,39 @@ describe('mappings in the database', () => {
 		await expect(saveVersion(t.db, t.kai, demo.id, demoMapping('two-deck'))).rejects.toMatchObject({ status: 403 });
 		await deleteMapping(t.db, t.teacher, demo.id);
 		await expect(getMapping(t.db, t.kai, demo.id)).rejects.toMatchObject({ status: 404 });
+	});
+});
+
+describe('what listing mappings costs', () => {
+	it('keeps the lint count with the version when it is saved, and lists the kept count', async () => {
+		const broken = (await listMappings(t.db, t.kai)).find((m) => m.name === 'Broken stutter row')!;
+		const detail = await getMapping(t.db, t.kai, broken.id);
+		const [kept] = await t.db.select().from(mappingVersion).where(eq(mappingVersion.id, detail.versionId));
+		expect(kept.lintCount).toBe(lintMapping(detail.document).length);
+		expect(kept.lintCount).toBeGreaterThan(0);
+		// The list reads the kept number; it does not lint the document again.
+		await t.db.update(mappingVersion).set({ lintCount: 42 }).where(eq(mappingVersion.id, detail.versionId));
+		expect((await listMappings(t.db, t.kai)).find((m) => m.id === broken.id)!.lintCount).toBe(42);
+	});
+
+	it('fills in the lint count of versions saved before it was kept', async () => {
+		await t.db.update(mappingVersion).set({ lintCount: null });
+		expect(await backfillLintCounts(t.db)).toBe(3);
+		const rows = await t.db.select().from(mappingVersion);
+		for (const row of rows) expect(row.lintCount).toBe(lintMapping(row.document as never).length);
+		expect(await backfillLintCounts(t.db)).toBe(0);
+	});
+
+	it('refuses a new mapping past the per-person limit with 409', async () => {
+		process.env.PADPROOF_MAX_MAPPINGS = '1';
+		try {
+			await createMapping(t.db, t.kai, { document: demoMapping('two-deck') });
+			await expect(createMapping(t.db, t.kai, { document: demoMapping('two-deck') })).rejects.toMatchObject({
+				status: 409,
+				message: expect.stringMatching(/1 mapping/)
+			});
+		} finally {
+			delete process.env.PADPROOF_MAX_MAPPINGS;
+		}
 	});
 });

@@ -12,6 +12,11 @@ import {
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { demoDatabase } from './factories';
 
+import { stopAnalysisWorkers } from '$lib/server/analysis/pool';
+import { afterAll } from 'vitest';
+
+// The first finish starts an analysis worker (through tsx in tests: a few seconds).
+afterAll(() => stopAnalysisWorkers());
 let t: Awaited<ReturnType<typeof demoDatabase>>;
 beforeEach(async () => (t = await demoDatabase()));
 afterEach(() => t.close());
@@ -63,7 +68,7 @@ describe('recording a session in chunks', () => {
 		await expect(appendChunk(t.db, t.lena, id, { seq: 0, events: [] })).rejects.toMatchObject({ status: 404 });
 	});
 
-	it('counts the dropout of the broken row when the session is finished', async () => {
+	it('counts the dropout of the broken row when the session is finished', { timeout: 60_000 }, async () => {
 		// Broken stutter row (top row pads 13–16): press 13, press 14, release 13 cuts the effect
 		// while 14 is held — the dropout the held-pad counter exists to prevent (common practice).
 		const { id } = await createRehearsal(t.db, t.kai, { mappingId: await demoId('Broken stutter row'), tempo: 120 });
@@ -74,6 +79,73 @@ describe('recording a session in chunks', () => {
 		expect(await finishRehearsal(t.db, t.kai, id, 'Chord test')).toEqual({ findings: 1 });
 		const [row] = await listRehearsals(t.db, t.kai, 'chord');
 		expect(row).toMatchObject({ status: 'saved', findingCount: 1, eventCount: 4, name: 'Chord test' });
+	});
+});
+
+describe('what a recording refuses', () => {
+	it(
+		'refuses a chunk after the session was finished with 409, and keeps the session as it was',
+		{ timeout: 60_000 },
+		async () => {
+			const { id } = await createRehearsal(t.db, t.kai, { mappingId: await demoId('Two-deck pad set'), tempo: 120 });
+			await appendChunk(t.db, t.kai, id, { seq: 0, events: [press(10, 1), release(200, 1)] });
+			await finishRehearsal(t.db, t.kai, id);
+			await expect(appendChunk(t.db, t.kai, id, { seq: 1, events: [press(300, 2)] })).rejects.toMatchObject({
+				status: 409,
+				message: expect.stringMatching(/finished/)
+			});
+			const { row, session } = await sessionDocument(t.db, t.kai, id);
+			expect(session.events).toHaveLength(2);
+			expect(row.eventCount).toBe(2);
+		}
+	);
+
+	it('answers an identical resend after finishing as a duplicate, not a refusal', { timeout: 60_000 }, async () => {
+		const { id } = await createRehearsal(t.db, t.kai, { mappingId: await demoId('Two-deck pad set'), tempo: 120 });
+		const chunk = { seq: 0, events: [press(10, 1), release(200, 1)] };
+		await appendChunk(t.db, t.kai, id, chunk);
+		await finishRehearsal(t.db, t.kai, id);
+		expect(await appendChunk(t.db, t.kai, id, chunk)).toMatchObject({ duplicate: true, eventCount: 2 });
+	});
+
+	it('refuses a resent chunk number with different content with 409 instead of dropping it silently', async () => {
+		const { id } = await createRehearsal(t.db, t.kai, { mappingId: await demoId('Two-deck pad set'), tempo: 120 });
+		await appendChunk(t.db, t.kai, id, { seq: 0, events: [press(10, 1), release(200, 1)] });
+		await expect(
+			appendChunk(t.db, t.kai, id, { seq: 0, events: [press(10, 1), release(250, 1)] })
+		).rejects.toMatchObject({ status: 409, message: expect.stringMatching(/chunk 0/) });
+		expect((await sessionDocument(t.db, t.kai, id)).session.events.map((e) => e.t)).toEqual([10, 200]);
+	});
+
+	it('refuses events past the per-session limit with 413 and keeps what was recorded', async () => {
+		process.env.PADPROOF_MAX_SESSION_EVENTS = '3';
+		try {
+			const { id } = await createRehearsal(t.db, t.kai, { mappingId: await demoId('Two-deck pad set'), tempo: 120 });
+			await appendChunk(t.db, t.kai, id, { seq: 0, events: [press(10, 1), release(200, 1)] });
+			await expect(
+				appendChunk(t.db, t.kai, id, { seq: 1, events: [press(300, 2), release(400, 2)] })
+			).rejects.toMatchObject({ status: 413, message: expect.stringMatching(/at most 3 events/) });
+			expect((await sessionDocument(t.db, t.kai, id)).row.eventCount).toBe(2);
+		} finally {
+			delete process.env.PADPROOF_MAX_SESSION_EVENTS;
+		}
+	});
+
+	it('refuses a new session past the per-person limit with 409', async () => {
+		process.env.PADPROOF_MAX_SESSIONS = '2';
+		try {
+			const mappingId = await demoId('Two-deck pad set');
+			await createRehearsal(t.db, t.kai, { mappingId, tempo: 120 });
+			await createRehearsal(t.db, t.kai, { mappingId, tempo: 120 });
+			await expect(createRehearsal(t.db, t.kai, { mappingId, tempo: 120 })).rejects.toMatchObject({
+				status: 409,
+				message: expect.stringMatching(/2 sessions/)
+			});
+			// Someone else is not held back by Kai's library.
+			await expect(createRehearsal(t.db, t.lena, { mappingId, tempo: 120 })).resolves.toHaveProperty('id');
+		} finally {
+			delete process.env.PADPROOF_MAX_SESSIONS;
+		}
 	});
 });
 
@@ -88,7 +160,7 @@ describe('importing a session document', () => {
 		expect(await listRehearsals(t.db, t.kai)).toEqual([]);
 	});
 
-	it('saves a good file as a finished session', async () => {
+	it('saves a good file as a finished session', { timeout: 60_000 }, async () => {
 		const mappingId = await demoId('Two-deck pad set');
 		const doc = { version: 1, tempo: 124, startedAt: '2026-12-01T20:00:00Z', events: [press(500, 1), release(900, 1)] };
 		const id = await importSession(t.db, t.kai, mappingId, doc, 'From file');

@@ -4,8 +4,11 @@
 // The recording's own record (next chunk number, event count) lives in synchronous storage
 // (localStorage), so a page closing mid-write can never hand out a chunk number twice; chunks
 // cut while the page is closing are stashed there too, as IndexedDB writes may not finish then.
+// A chunk the server refuses for good (4xx) is moved aside with the server's reason, shown to the
+// person and kept for download, and the queue goes on with the next chunk.
 import { createStore, del, entries, set, type UseStore } from 'idb-keyval';
 import type { SessionEvent } from '$lib/engine';
+import { CHUNK_MAX_EVENTS, CHUNK_TARGET_BYTES } from './limits';
 
 export interface ActiveRecording {
 	sessionId: string;
@@ -21,7 +24,44 @@ export interface Chunk {
 	events: SessionEvent[];
 }
 
+export interface RefusedChunk extends Chunk {
+	reason: string;
+}
+
+/** Thrown by a SendChunk when the server refuses a chunk for good: sending it again cannot help. */
+export class ChunkRefused extends Error {}
+
 export type SendChunk = (sessionId: string, chunk: Chunk) => Promise<void>;
+
+const encoder = new TextEncoder();
+// {"seq":<up to 10 digits>,"events":[]} around the events, and a comma between two of them.
+const ENVELOPE_BYTES = 32;
+
+/**
+ * Cuts events into chunk-sized runs in order: at most `maxEvents` each and at most `maxBytes` of
+ * JSON body (one event larger than that alone still goes in a chunk of its own).
+ */
+export function splitEvents(
+	events: SessionEvent[],
+	maxEvents = CHUNK_MAX_EVENTS,
+	maxBytes = CHUNK_TARGET_BYTES
+): SessionEvent[][] {
+	const runs: SessionEvent[][] = [];
+	let run: SessionEvent[] = [];
+	let bytes = ENVELOPE_BYTES;
+	for (const event of events) {
+		const size = encoder.encode(JSON.stringify(event)).length + 1;
+		if (run.length && (run.length >= maxEvents || bytes + size > maxBytes)) {
+			runs.push(run);
+			run = [];
+			bytes = ENVELOPE_BYTES;
+		}
+		run.push(event);
+		bytes += size;
+	}
+	if (run.length) runs.push(run);
+	return runs;
+}
 
 export type SyncStore = Pick<Storage, 'getItem' | 'setItem' | 'removeItem'> & {
 	key(i: number): string | null;
@@ -31,6 +71,7 @@ export type SyncStore = Pick<Storage, 'getItem' | 'setItem' | 'removeItem'> & {
 const PREFIX = 'padproof.recording.';
 const activeKey = (mappingId: string) => `${PREFIX}active:${mappingId}`;
 const chunkKey = (sessionId: string, seq: number) => `chunk:${sessionId}:${String(seq).padStart(9, '0')}`;
+const refusedKey = (sessionId: string, seq: number) => `refused:${sessionId}:${String(seq).padStart(9, '0')}`;
 
 export class ChunkQueue {
 	#store: UseStore;
@@ -66,18 +107,28 @@ export class ChunkQueue {
 		return chunk;
 	}
 
-	/** Numbers a chunk and keeps it in IndexedDB until the server has it. */
-	async enqueue(recording: ActiveRecording, events: SessionEvent[]): Promise<Chunk> {
-		const chunk = this.#take(recording, events);
-		await set(chunkKey(recording.sessionId, chunk.seq), chunk, this.#store);
-		return chunk;
+	/** Cuts events into numbered chunks under the server's limits and keeps them in IndexedDB until the server has them. */
+	async enqueue(recording: ActiveRecording, events: SessionEvent[]): Promise<Chunk[]> {
+		const chunks = splitEvents(events).map((run) => this.#take(recording, run));
+		for (const chunk of chunks) await set(chunkKey(recording.sessionId, chunk.seq), chunk, this.#store);
+		return chunks;
 	}
 
-	/** The same, synchronously, for a page that is closing (kept in localStorage). */
-	stash(recording: ActiveRecording, events: SessionEvent[]): Chunk {
-		const chunk = this.#take(recording, events);
-		this.#sync.setItem(PREFIX + chunkKey(recording.sessionId, chunk.seq), JSON.stringify(chunk));
-		return chunk;
+	/** The same, synchronously, for a page that is closing or a room that is left (kept in localStorage). */
+	stash(recording: ActiveRecording, events: SessionEvent[]): Chunk[] {
+		const chunks = splitEvents(events).map((run) => this.#take(recording, run));
+		for (const chunk of chunks)
+			this.#sync.setItem(PREFIX + chunkKey(recording.sessionId, chunk.seq), JSON.stringify(chunk));
+		return chunks;
+	}
+
+	/** Chunks of this session the server refused for good, with its reasons, in number order. */
+	async refused(sessionId: string): Promise<RefusedChunk[]> {
+		const prefix = `refused:${sessionId}:`;
+		return (await entries<string, RefusedChunk>(this.#store))
+			.filter(([key]) => typeof key === 'string' && key.startsWith(prefix))
+			.map(([, c]) => c)
+			.sort((a, b) => a.seq - b.seq);
 	}
 
 	#stashed(sessionId: string): Chunk[] {
@@ -99,7 +150,11 @@ export class ChunkQueue {
 		return [...bySeq.values()].sort((a, b) => a.seq - b.seq);
 	}
 
-	/** Sends every waiting chunk in order; stops at the first failure. Returns how many are still waiting. */
+	/**
+	 * Sends every waiting chunk in order. A chunk the server refuses for good is moved aside and the
+	 * next one is sent; any other failure (offline, server busy) stops the round. Returns how many
+	 * chunks are still waiting.
+	 */
 	flush(sessionId: string): Promise<number> {
 		// One flush at a time, so a chunk is never in flight twice from this tab.
 		this.#sending ??= this.#flush(sessionId).finally(() => (this.#sending = null));
@@ -111,8 +166,10 @@ export class ChunkQueue {
 		for (let i = 0; i < waiting.length; i++) {
 			try {
 				await this.send(sessionId, waiting[i]);
-			} catch {
-				return waiting.length - i;
+			} catch (e) {
+				if (!(e instanceof ChunkRefused)) return waiting.length - i;
+				const refused: RefusedChunk = { ...waiting[i], reason: e.message };
+				await set(refusedKey(sessionId, refused.seq), refused, this.#store);
 			}
 			const key = chunkKey(sessionId, waiting[i].seq);
 			await del(key, this.#store);

@@ -1,9 +1,18 @@
 // Records a rehearsal without loss: events are cut into numbered chunks every 2 s and when the
 // page is hidden (sent then with sendBeacon), kept in IndexedDB until the server confirms them,
-// and sent again after an outage or a reload. A reload resumes the unfinished recording.
+// and sent again after an outage or a reload. A reload resumes the unfinished recording; leaving
+// the room by an in-app link keeps the last events and sends them (the take goes on when the room
+// opens again). A chunk the server refuses for good is shown (`refused`) and the rest still go.
 import type { SessionClock, SessionEvent, SessionStart } from '$lib/engine';
 import type { UseStore } from 'idb-keyval';
-import { ChunkQueue, type ActiveRecording, type Chunk, type SyncStore } from './chunk-queue';
+import {
+	ChunkQueue,
+	ChunkRefused,
+	type ActiveRecording,
+	type Chunk,
+	type RefusedChunk,
+	type SyncStore
+} from './chunk-queue';
 import { uploadAudio } from './upload';
 
 export type RecorderStatus = 'idle' | 'starting' | 'recording' | 'stopping' | 'saved' | 'failed';
@@ -21,15 +30,6 @@ export interface RecorderOptions {
 	fetch?: typeof fetch;
 }
 
-class SendError extends Error {
-	constructor(
-		message: string,
-		readonly permanent: boolean
-	) {
-		super(message);
-	}
-}
-
 export class SessionRecorder {
 	status = $state<RecorderStatus>('idle');
 	sessionId = $state<string | null>(null);
@@ -39,6 +39,8 @@ export class SessionRecorder {
 	offline = $state(false);
 	error = $state<string | null>(null);
 	uploadProgress = $state<number | null>(null);
+	/** Chunks the server refused for good, with its reason; kept in this browser to download. */
+	refused = $state<RefusedChunk[]>([]);
 
 	#options: RecorderOptions;
 	#fetch: typeof fetch;
@@ -48,6 +50,7 @@ export class SessionRecorder {
 	#timer: ReturnType<typeof setInterval> | undefined;
 	#media: MediaRecorder | null = null;
 	#audioParts: Blob[] = [];
+	#parked: Promise<unknown> = Promise.resolve();
 	#onHidden = () => {
 		if (document.visibilityState === 'hidden') this.leaving();
 	};
@@ -94,6 +97,7 @@ export class SessionRecorder {
 				eventCount: 0
 			};
 			this.#queue.saveActive(this.#recording);
+			this.refused = [];
 			this.#begin();
 			this.#media?.start(1000);
 		} catch (e) {
@@ -130,6 +134,7 @@ export class SessionRecorder {
 		await this.#cut();
 		const waiting = await this.#queue.flush(recording.sessionId);
 		this.unsent = this.#pending.length + (await this.#countUnsent());
+		this.refused = await this.#queue.refused(recording.sessionId);
 		if (waiting > 0) {
 			this.status = 'recording';
 			this.#timer = setInterval(() => void this.#tick(), this.#options.flushEveryMs ?? 2000);
@@ -168,7 +173,16 @@ export class SessionRecorder {
 		if (this.status === 'recording') this.#media.start(1000);
 	}
 
+	/**
+	 * The room closes (an in-app link, or the page): a live take keeps its last events in this
+	 * browser at once and sends them; it goes on when this mapping's room opens again.
+	 */
 	dispose(): void {
+		if (this.status === 'recording' && this.#recording) {
+			const id = this.#recording.sessionId;
+			if (this.#pending.length) this.#queue.stash(this.#recording, this.#pending.splice(0));
+			this.#parked = this.#queue.flush(id).catch(() => undefined);
+		}
 		clearInterval(this.#timer);
 		if (typeof document !== 'undefined') document.removeEventListener('visibilitychange', this.#onHidden);
 		if (typeof window !== 'undefined') window.removeEventListener('pagehide', this.#onPageHide);
@@ -190,8 +204,13 @@ export class SessionRecorder {
 		this.unsent = 0;
 	}
 
-	async #cut(): Promise<Chunk | null> {
-		if (!this.#recording || this.#pending.length === 0) return null;
+	/** Resolves when what `dispose` handed to the server has been answered (or failed). */
+	settled(): Promise<unknown> {
+		return this.#parked;
+	}
+
+	async #cut(): Promise<Chunk[]> {
+		if (!this.#recording || this.#pending.length === 0) return [];
 		const events = this.#pending;
 		this.#pending = [];
 		return this.#queue.enqueue(this.#recording, events);
@@ -205,9 +224,12 @@ export class SessionRecorder {
 	async #tick() {
 		if (!this.#recording) return;
 		await this.#cut();
-		const waiting = await this.#queue.flush(this.#recording.sessionId);
+		const id = this.#recording.sessionId;
+		const waiting = await this.#queue.flush(id);
 		this.offline = waiting > 0;
 		this.unsent = this.#pending.length + (waiting > 0 ? await this.#countUnsent() : 0);
+		const refused = await this.#queue.refused(id);
+		if (refused.length !== this.refused.length) this.refused = refused;
 	}
 
 	async #countUnsent(): Promise<number> {
@@ -222,9 +244,8 @@ export class SessionRecorder {
 	leaving() {
 		const recording = this.#recording;
 		if (!recording || this.#pending.length === 0) return;
-		const chunk = this.#queue.stash(recording, this.#pending);
-		this.#pending = [];
-		globalThis.navigator?.sendBeacon?.(`/api/sessions/${recording.sessionId}/chunks`, JSON.stringify(chunk));
+		for (const chunk of this.#queue.stash(recording, this.#pending.splice(0)))
+			globalThis.navigator?.sendBeacon?.(`/api/sessions/${recording.sessionId}/chunks`, JSON.stringify(chunk));
 	}
 
 	async #send(sessionId: string, chunk: Chunk): Promise<void> {
@@ -237,17 +258,19 @@ export class SessionRecorder {
 			});
 		} catch {
 			this.offline = true;
-			throw new SendError('The server cannot be reached.', false);
+			throw new Error('The server cannot be reached.');
 		}
 		if (response.ok) {
 			this.offline = false;
 			return;
 		}
 		const body = await response.json().catch(() => null);
-		const permanent =
-			response.status >= 400 && response.status < 500 && response.status !== 408 && response.status !== 429;
-		if (permanent) this.error = body?.error ?? `The server refused the events (${response.status}).`;
-		throw new SendError(body?.error ?? `The server answered ${response.status}.`, permanent);
+		// 4xx is for good, except a timeout, a busy server and a sign-in that ran out (sent again later).
+		const forGood = response.status >= 400 && response.status < 500 && ![401, 408, 429].includes(response.status);
+		if (response.status === 401)
+			this.error = 'Sign in again to send the rest of this take; it is kept in this browser.';
+		const reason = body?.error ?? `The server answered ${response.status}.`;
+		throw forGood ? new ChunkRefused(reason) : new Error(reason);
 	}
 
 	async #json(path: string, body: unknown, method = 'POST'): Promise<unknown> {

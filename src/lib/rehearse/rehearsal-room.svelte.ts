@@ -37,6 +37,7 @@ export type RoomRecorder = Pick<
 	| 'offline'
 	| 'error'
 	| 'uploadProgress'
+	| 'refused'
 	| 'elapsed'
 	| 'start'
 	| 'record'

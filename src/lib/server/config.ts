@@ -44,3 +44,18 @@ export function rateLimitEnabled(): boolean {
 export function addressHeader(): string | undefined {
 	return process.env.ADDRESS_HEADER?.trim().toLowerCase() || undefined;
 }
+
+function limit(name: string, fallback: number): number {
+	const value = Number(process.env[name]);
+	return Number.isInteger(value) && value > 0 ? value : fallback;
+}
+
+/** How much one person may keep, so that one account cannot fill the server for everyone. */
+export const limits = {
+	/** Events in one recorded session (about 3 hours of constant playing at 20 events a second). */
+	sessionEvents: () => limit('PADPROOF_MAX_SESSION_EVENTS', 200_000),
+	/** Sessions one person keeps. */
+	sessions: () => limit('PADPROOF_MAX_SESSIONS', 5_000),
+	/** Mappings one person owns. */
+	mappings: () => limit('PADPROOF_MAX_MAPPINGS', 500)
+};

@@ -1,8 +1,9 @@
 // Mappings in the database: a row per mapping and a row per version of its document. Only the
 // owner changes or deletes a mapping; public mappings can be read (and rehearsed) by everyone.
 import { DEMO_MAPPINGS, lintMapping, parseMapping, type Mapping } from '$lib/engine';
-import { and, desc, eq, or } from 'drizzle-orm';
+import { and, count, desc, eq, isNull, or } from 'drizzle-orm';
 import { randomUUID } from 'node:crypto';
+import { limits } from './config';
 import type { Database } from './db';
 import { mapping, mappingVersion, user } from './db/schema';
 import { Refusal } from './http';
@@ -30,7 +31,13 @@ export interface MappingDetail extends MappingSummary {
 	versions: { id: string; version: number; createdAt: Date }[];
 }
 
-function summarize(row: typeof mapping.$inferSelect, owner: string, userId: string, doc: Mapping): MappingSummary {
+function summarize(
+	row: typeof mapping.$inferSelect,
+	owner: string,
+	userId: string,
+	doc: Mapping,
+	lintCount: number | null
+): MappingSummary {
 	return {
 		id: row.id,
 		name: row.name,
@@ -41,7 +48,7 @@ function summarize(row: typeof mapping.$inferSelect, owner: string, userId: stri
 		decks: doc.decks,
 		pads: doc.profile.inputs.filter((i) => i.kind === 'pad').length,
 		bindings: doc.bindings.length,
-		lintCount: lintMapping(doc).length,
+		lintCount: lintCount ?? lintMapping(doc).length,
 		version: row.currentVersion,
 		updatedAt: row.updatedAt
 	};
@@ -50,7 +57,7 @@ function summarize(row: typeof mapping.$inferSelect, owner: string, userId: stri
 /** The user's own mappings and everyone's public ones, newest first. */
 export async function listMappings(db: Database, userId: string): Promise<MappingSummary[]> {
 	const rows = await db
-		.select({ m: mapping, owner: user.name, document: mappingVersion.document })
+		.select({ m: mapping, owner: user.name, document: mappingVersion.document, lintCount: mappingVersion.lintCount })
 		.from(mapping)
 		.innerJoin(user, eq(user.id, mapping.ownerId))
 		.innerJoin(
@@ -59,7 +66,7 @@ export async function listMappings(db: Database, userId: string): Promise<Mappin
 		)
 		.where(or(eq(mapping.ownerId, userId), eq(mapping.visibility, 'public')))
 		.orderBy(desc(mapping.updatedAt));
-	return rows.map((r) => summarize(r.m, r.owner, userId, storedDocument(r.document)));
+	return rows.map((r) => summarize(r.m, r.owner, userId, storedDocument(r.document), r.lintCount));
 }
 
 export async function getMapping(db: Database, userId: string, id: string, version?: number): Promise<MappingDetail> {
@@ -80,7 +87,7 @@ export async function getMapping(db: Database, userId: string, id: string, versi
 	if (!chosen) throw new Refusal(404, `Version ${version} of this mapping does not exist.`);
 	const document = storedDocument(chosen.document);
 	return {
-		...summarize(row.m, row.owner, userId, document),
+		...summarize(row.m, row.owner, userId, document, chosen.lintCount),
 		document,
 		versionId: chosen.id,
 		versions: versions.map((v) => ({ id: v.id, version: v.version, createdAt: v.createdAt }))
@@ -114,15 +121,26 @@ export async function createMapping(
 	input: { document: unknown; name?: string; visibility?: Visibility; demoSlug?: string }
 ): Promise<string> {
 	const document = checkDocument(input.document);
+	const [{ owns }] = await db.select({ owns: count() }).from(mapping).where(eq(mapping.ownerId, ownerId));
+	const max = limits.mappings();
+	if (owns >= max)
+		throw new Refusal(
+			409,
+			`You own ${owns} mappings, the most one person may keep (${max} mapping${max === 1 ? '' : 's'}). Delete one you no longer use first.`
+		);
 	const id = randomUUID();
 	const name = input.name?.trim() || document.name;
 	await db.transaction(async (tx) => {
 		await tx
 			.insert(mapping)
 			.values({ id, ownerId, name, visibility: input.visibility ?? 'private', demoSlug: input.demoSlug });
-		await tx
-			.insert(mappingVersion)
-			.values({ id: randomUUID(), mappingId: id, version: 1, document: { ...document, name } });
+		await tx.insert(mappingVersion).values({
+			id: randomUUID(),
+			mappingId: id,
+			version: 1,
+			document: { ...document, name },
+			lintCount: lintMapping(document).length
+		});
 	});
 	return id;
 }
@@ -142,7 +160,9 @@ export async function saveVersion(db: Database, userId: string, id: string, inpu
 	const document = checkDocument(input);
 	const version = row.currentVersion + 1;
 	await db.transaction(async (tx) => {
-		await tx.insert(mappingVersion).values({ id: randomUUID(), mappingId: id, version, document });
+		await tx
+			.insert(mappingVersion)
+			.values({ id: randomUUID(), mappingId: id, version, document, lintCount: lintMapping(document).length });
 		await tx.update(mapping).set({ currentVersion: version, name: document.name }).where(eq(mapping.id, id));
 	});
 	return version;
@@ -156,6 +176,20 @@ export async function setVisibility(db: Database, userId: string, id: string, vi
 export async function deleteMapping(db: Database, userId: string, id: string) {
 	await owned(db, userId, id);
 	await db.delete(mapping).where(eq(mapping.id, id));
+}
+
+/** Counts the lint findings of versions saved before the count was kept; returns how many it filled in. */
+export async function backfillLintCounts(db: Database): Promise<number> {
+	const rows = await db
+		.select({ id: mappingVersion.id, document: mappingVersion.document })
+		.from(mappingVersion)
+		.where(isNull(mappingVersion.lintCount));
+	for (const row of rows) {
+		const parsed = parseMapping(row.document);
+		const lintCount = parsed.ok ? lintMapping(parsed.mapping).length : 0;
+		await db.update(mappingVersion).set({ lintCount }).where(eq(mappingVersion.id, row.id));
+	}
+	return rows.length;
 }
 
 /** The demo mappings, owned by the school's teacher and public; created once. */

@@ -9,25 +9,27 @@ import {
 	sessionEvents,
 	sessionEventsSchema,
 	sessionReplay,
+	sessionSchema,
 	sessionStartSchema,
 	type Mapping,
 	type SessionClock,
 	type SessionDocument,
 	type SessionEvent
 } from '$lib/engine';
-import { and, asc, desc, eq, sql } from 'drizzle-orm';
+import { and, asc, count, desc, eq, sql } from 'drizzle-orm';
 import { randomUUID } from 'node:crypto';
 import { z } from 'zod';
+import { countFindingsOffThread } from './analysis/pool';
+import { limits } from './config';
 import { serialWrite, type Database } from './db';
 import { mappingVersion, rehearsal, rehearsalChunk } from './db/schema';
 import { Refusal } from './http';
 import { getMapping, storedDocument } from './mappings';
-
-export const MAX_CHUNK_EVENTS = 5000;
+import { CHUNK_MAX_EVENTS } from '$lib/recorder/limits';
 
 export const chunkSchema = z.object({
 	seq: z.number().int().min(0).max(10_000_000),
-	events: sessionEventsSchema.element.array().max(MAX_CHUNK_EVENTS)
+	events: sessionEventsSchema.element.array().max(CHUNK_MAX_EVENTS)
 });
 
 export const newRehearsalSchema = z.object({
@@ -51,6 +53,12 @@ async function mine(db: Database, userId: string, id: string): Promise<Rehearsal
 
 export async function createRehearsal(db: Database, userId: string, input: z.infer<typeof newRehearsalSchema>) {
 	const m = await getMapping(db, userId, input.mappingId);
+	const [{ kept }] = await db.select({ kept: count() }).from(rehearsal).where(eq(rehearsal.ownerId, userId));
+	if (kept >= limits.sessions())
+		throw new Refusal(
+			409,
+			`You keep ${kept} sessions, the most one person may keep (${limits.sessions()} sessions). Delete old sessions to record new ones.`
+		);
 	const id = randomUUID();
 	const startedAt = input.startedAt ?? new Date().toISOString();
 	const name = input.name || `${m.name} · ${startedAt.slice(0, 16).replace('T', ' ')}`;
@@ -69,30 +77,54 @@ export async function createRehearsal(db: Database, userId: string, input: z.inf
 	return { id, name };
 }
 
-/** Stores a chunk unless one with its number is there already; answers what the server holds. */
+/**
+ * Stores a chunk unless one with its number is there already; answers what the server holds.
+ * The same chunk sent again is a duplicate (answered, not stored); a different chunk under a
+ * number already used, a chunk for a finished session and a chunk past the session's limit are
+ * refused (409, 409, 413), never dropped silently.
+ */
 export async function appendChunk(db: Database, userId: string, id: string, chunk: z.infer<typeof chunkSchema>) {
-	await mine(db, userId, id);
 	const last = chunk.events.at(-1)?.t ?? 0;
-	const stored = await serialWrite(() =>
+	const n = chunk.events.length;
+	const max = limits.sessionEvents();
+	return serialWrite(() =>
 		db.transaction(async (tx) => {
-			const inserted = await tx
-				.insert(rehearsalChunk)
-				.values({ rehearsalId: id, seq: chunk.seq, events: chunk.events, eventCount: chunk.events.length })
-				.onConflictDoNothing()
-				.returning({ seq: rehearsalChunk.seq });
-			if (inserted.length === 0) return false;
+			const [row] = await tx
+				.select({ ownerId: rehearsal.ownerId, status: rehearsal.status, eventCount: rehearsal.eventCount })
+				.from(rehearsal)
+				.where(eq(rehearsal.id, id));
+			if (!row || row.ownerId !== userId)
+				throw new Refusal(404, 'That session does not exist, or it belongs to someone else.');
+			const [kept] = await tx
+				.select({ events: rehearsalChunk.events })
+				.from(rehearsalChunk)
+				.where(and(eq(rehearsalChunk.rehearsalId, id), eq(rehearsalChunk.seq, chunk.seq)));
+			if (kept) {
+				if (JSON.stringify(kept.events) === JSON.stringify(chunk.events))
+					return { stored: false, duplicate: true, eventCount: row.eventCount };
+				throw new Refusal(
+					409,
+					`The server already holds a different chunk ${chunk.seq} of this session; this one was not stored.`
+				);
+			}
+			if (row.status !== 'recording')
+				throw new Refusal(409, 'This recording is finished; events sent after “Stop” are not added to it.');
+			if (row.eventCount + n > max)
+				throw new Refusal(
+					413,
+					`A session holds at most ${max} events; this one is full. Stop it and start a new recording.`
+				);
+			await tx.insert(rehearsalChunk).values({ rehearsalId: id, seq: chunk.seq, events: chunk.events, eventCount: n });
 			await tx
 				.update(rehearsal)
 				.set({
-					eventCount: sql`${rehearsal.eventCount} + ${chunk.events.length}`,
+					eventCount: sql`${rehearsal.eventCount} + ${n}`,
 					durationMs: sql`max(${rehearsal.durationMs}, ${last})`
 				})
 				.where(eq(rehearsal.id, id));
-			return true;
+			return { stored: true, duplicate: false, eventCount: row.eventCount + n };
 		})
 	);
-	const [row] = await db.select({ eventCount: rehearsal.eventCount }).from(rehearsal).where(eq(rehearsal.id, id));
-	return { stored, duplicate: !stored, eventCount: row.eventCount };
 }
 
 export async function sessionDocument(
@@ -131,20 +163,25 @@ async function pinnedMapping(db: Database, row: RehearsalRow): Promise<Mapping |
 	return v ? storedDocument(v.document) : null;
 }
 
-/** Ends the recording: names it, counts its findings against the mapping version it was played with. */
+/**
+ * Ends the recording: closes it to new chunks, names it, and counts its findings against the
+ * mapping version it was played with — in a worker thread, so that a long take does not hold up
+ * other people's requests. Finishing again counts again.
+ */
 export async function finishRehearsal(db: Database, userId: string, id: string, name?: string, clock?: SessionClock) {
-	if (clock) {
-		await mine(db, userId, id);
-		await db.update(rehearsal).set({ clock }).where(eq(rehearsal.id, id));
-	}
-	const { row, session } = await sessionDocument(db, userId, id);
-	const doc = await pinnedMapping(db, row);
-	const findings = doc ? analyze(doc, sessionEvents(session).events, sessionReplay(doc, session)) : [];
-	await db
-		.update(rehearsal)
-		.set({ status: 'saved', name: name?.trim() || row.name, findingCount: findings.length })
-		.where(eq(rehearsal.id, id));
-	return { findings: findings.length };
+	const row = await mine(db, userId, id);
+	if (clock) await serialWrite(() => db.update(rehearsal).set({ clock }).where(eq(rehearsal.id, id)));
+	await serialWrite(() =>
+		db
+			.update(rehearsal)
+			.set({ status: 'saved', name: name?.trim() || row.name })
+			.where(eq(rehearsal.id, id))
+	);
+	const { session } = await sessionDocument(db, userId, id);
+	const mapping = await pinnedMapping(db, row);
+	const findings = mapping ? await countFindingsOffThread({ mapping, session }) : 0;
+	await serialWrite(() => db.update(rehearsal).set({ findingCount: findings }).where(eq(rehearsal.id, id)));
+	return { findings };
 }
 
 export async function renameRehearsal(db: Database, userId: string, id: string, name: string) {
@@ -200,10 +237,12 @@ export async function importSession(db: Database, userId: string, mappingId: str
 		initial: parsed.session.initial
 	});
 	const events = parsed.session.events;
-	for (let seq = 0; seq * MAX_CHUNK_EVENTS < Math.max(events.length, 1); seq++) {
+	if (events.length > limits.sessionEvents())
+		throw new Refusal(413, `A session holds at most ${limits.sessionEvents()} events; this file has ${events.length}.`);
+	for (let seq = 0; seq * CHUNK_MAX_EVENTS < Math.max(events.length, 1); seq++) {
 		await appendChunk(db, userId, id, {
 			seq,
-			events: events.slice(seq * MAX_CHUNK_EVENTS, (seq + 1) * MAX_CHUNK_EVENTS)
+			events: events.slice(seq * CHUNK_MAX_EVENTS, (seq + 1) * CHUNK_MAX_EVENTS)
 		});
 	}
 	await finishRehearsal(db, userId, id);

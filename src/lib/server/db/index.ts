@@ -38,6 +38,9 @@ export async function prepareDatabase(client: Client, db: Database, migrationsFo
 	}
 	await migrate(db, { migrationsFolder });
 	await upgradeStoredMappings(db);
+	// Versions saved before lint counts were kept get theirs once, here, not on every listing.
+	const { backfillLintCounts } = await import('../mappings');
+	await backfillLintCounts(db);
 }
 
 export const { client, db } = openDatabase();

@@ -40,6 +40,8 @@ export const mappingVersion = sqliteTable(
 			.references(() => mapping.id, { onDelete: 'cascade' }),
 		version: integer().notNull(),
 		document: text({ mode: 'json' }).notNull(),
+		/** How many lint findings the document has; written with the version (null: not yet counted). */
+		lintCount: integer(),
 		createdAt: now()
 	},
 	(t) => [index('mapping_version_idx').on(t.mappingId, t.version)]

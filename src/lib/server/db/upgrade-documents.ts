@@ -18,7 +18,10 @@ export async function upgradeStoredMappings(db: Database): Promise<number> {
 		if (!parsed.ok) continue;
 		await db.transaction(async (tx) => {
 			await tx.insert(mappingVersionV1).values({ versionId: row.id, document: row.document }).onConflictDoNothing();
-			await tx.update(mappingVersion).set({ document: parsed.mapping }).where(eq(mappingVersion.id, row.id));
+			await tx
+				.update(mappingVersion)
+				.set({ document: parsed.mapping, lintCount: null })
+				.where(eq(mappingVersion.id, row.id));
 		});
 		upgraded++;
 	}

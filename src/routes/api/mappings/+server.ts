@@ -1,8 +1,8 @@
 import { db } from '$lib/server/db';
+import { newMappingBody } from '$lib/server/api-schemas';
 import { readJson, refusalResponse, signedIn } from '$lib/server/http';
 import { createMapping, listMappings } from '$lib/server/mappings';
 import { json } from '@sveltejs/kit';
-import { z } from 'zod';
 import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = async ({ locals }) => {
@@ -13,16 +13,10 @@ export const GET: RequestHandler = async ({ locals }) => {
 	}
 };
 
-const NewMapping = z.object({
-	name: z.string().trim().max(120).optional(),
-	visibility: z.enum(['private', 'public']).optional(),
-	document: z.unknown()
-});
-
 export const POST: RequestHandler = async ({ locals, request }) => {
 	try {
 		const user = signedIn(locals);
-		const body = await readJson(request, NewMapping, 2 << 20);
+		const body = await readJson(request, newMappingBody, 2 << 20);
 		const id = await createMapping(db, user.id, body);
 		return json({ id }, { status: 201 });
 	} catch (e) {

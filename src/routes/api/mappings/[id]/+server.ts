@@ -1,8 +1,8 @@
 import { db } from '$lib/server/db';
+import { mappingVersionBody, mappingVisibilityBody } from '$lib/server/api-schemas';
 import { readJson, refusalResponse, signedIn } from '$lib/server/http';
 import { deleteMapping, getMapping, saveVersion, setVisibility } from '$lib/server/mappings';
 import { json } from '@sveltejs/kit';
-import { z } from 'zod';
 import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = async ({ locals, params, url }) => {
@@ -24,7 +24,7 @@ export const GET: RequestHandler = async ({ locals, params, url }) => {
 export const PUT: RequestHandler = async ({ locals, params, request }) => {
 	try {
 		const user = signedIn(locals);
-		const body = await readJson(request, z.object({ document: z.unknown() }), 2 << 20);
+		const body = await readJson(request, mappingVersionBody, 2 << 20);
 		return json({ version: await saveVersion(db, user.id, params.id, body.document) });
 	} catch (e) {
 		return refusalResponse(e);
@@ -34,7 +34,7 @@ export const PUT: RequestHandler = async ({ locals, params, request }) => {
 export const PATCH: RequestHandler = async ({ locals, params, request }) => {
 	try {
 		const user = signedIn(locals);
-		const body = await readJson(request, z.object({ visibility: z.enum(['private', 'public']) }));
+		const body = await readJson(request, mappingVisibilityBody);
 		await setVisibility(db, user.id, params.id, body.visibility);
 		return json({ ok: true });
 	} catch (e) {

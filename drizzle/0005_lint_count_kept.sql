@@ -1,0 +1,1 @@
+ALTER TABLE `mapping_version` ADD `lint_count` integer;
