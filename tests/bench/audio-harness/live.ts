@@ -54,8 +54,8 @@ export async function measureLive(events: number): Promise<LiveMeasure> {
 	rig.dispose();
 	return {
 		addedMs,
-		baseLatencyMs: (raw.baseLatency ?? NaN) * 1000,
-		outputLatencyMs: (raw.outputLatency ?? NaN) * 1000,
+		baseLatencyMs: typeof raw.baseLatency === 'number' ? raw.baseLatency * 1000 : NaN,
+		outputLatencyMs: typeof raw.outputLatency === 'number' ? raw.outputLatency * 1000 : NaN,
 		sampleRate: raw.sampleRate
 	};
 }
