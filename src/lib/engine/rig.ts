@@ -21,6 +21,7 @@ import {
 	type Clamp,
 	type DeckId,
 	type EffectId,
+	type GuardOp,
 	type InputEvent,
 	type Mapping,
 	type PositionState,
@@ -136,24 +137,29 @@ class Draft {
 	}
 }
 
+/** The one guard comparison (DESIGN.md §4.2): does counter value `v` pass `op value`? */
+export function guardHolds(op: GuardOp, v: number, value: number): boolean {
+	switch (op) {
+		case '=':
+			return v === value;
+		case '!=':
+			return v !== value;
+		case '<':
+			return v < value;
+		case '<=':
+			return v <= value;
+		case '>':
+			return v > value;
+		case '>=':
+			return v >= value;
+	}
+}
+
 function guardsHold(step: CompiledStep, snapshot: Record<string, number>): boolean {
 	const gs = step.guards;
 	for (let g = 0; g < gs.length; g++) {
 		const { counter, op, value } = gs[g];
-		const v = snapshot[counter] ?? 0;
-		const ok =
-			op === '='
-				? v === value
-				: op === '!='
-					? v !== value
-					: op === '<'
-						? v < value
-						: op === '<='
-							? v <= value
-							: op === '>'
-								? v > value
-								: v >= value;
-		if (!ok) return false;
+		if (!guardHolds(op, snapshot[counter] ?? 0, value)) return false;
 	}
 	return true;
 }
@@ -307,17 +313,21 @@ function nextHeld(held: string[], event: InputEvent): string[] {
 export function applyEvent(mapping: Mapping, state: RigState, event: InputEvent, index: number): StepResult {
 	const steps = compileMapping(mapping).stepsByInput.get(event.input);
 	const d = new Draft(state, event.t, index);
+	let setUp = 0;
 	if (steps) {
 		const snapshot = state.counters;
 		for (let k = 0; k < steps.length; k++) {
 			const step = steps[k];
 			if (step.guards.length && !guardsHold(step, snapshot)) continue;
+			// A knob turn changes values but never who set a rack up (DESIGN.md §4.6).
+			if (step.rack >= 0 && event.type !== 'turn' && stepValue(step, event.type, undefined) !== undefined)
+				setUp |= 1 << step.rack;
 			runStep(d, step, event.type, event.value);
 		}
 	}
 	const held = nextHeld(state.held, event);
 	if (held !== state.held) d.record('held', state.held, held);
-	return { state: d.finish(held), changes: d.changes, clamps: d.clamps };
+	return { state: d.finish(held), changes: d.changes, clamps: d.clamps, setUp };
 }
 
 /** Fold a list of events through `applyEvent` (no timing, no quantize): handy for tests and tools. */
