@@ -1,3 +1,6 @@
+// audio.live_added_ms_p99: in a real-time context, pad event → the context time its changes are
+// scheduled at, minus the context time when the event arrived (through the live rig actor and the
+// audio rig), beside the context's own audio.base_latency_ms and audio.output_latency_ms.
 // audio.render_x_realtime: offline render speed in Chromium for four decks playing demo loops
 // with four racks routed (one per deck: chains of three effects and one of a single effect), through the master.
 // Serves the audio layer with an in-process Vite server (audio-harness/) and measures; it never
@@ -10,6 +13,15 @@ import { emptyPosition, loadedPosition } from '../../src/lib/engine/rig';
 import { CHAIN_MAX, type EffectId, type RackState, type RigState } from '../../src/lib/engine/types';
 
 const SECONDS = 30;
+const LIVE_EVENTS = 400;
+
+/** The value at or below which 99 % of the samples fall (nearest rank). */
+function p99(values: number[]): number {
+	const sorted = [...values].sort((a, b) => a - b);
+	return sorted[Math.min(sorted.length - 1, Math.ceil(0.99 * sorted.length) - 1)];
+}
+
+const round2 = (v: number) => Math.round(v * 100) / 100;
 
 function rack(deck: 'A' | 'B' | 'C' | 'D', effects: EffectId[]): RackState {
 	const chain = Array.from({ length: CHAIN_MAX }, (_, i) =>
@@ -44,7 +56,7 @@ export default async function audioBench(report: (f: Figure) => void) {
 	const { url, server } = await serveHarness();
 	const browser = await chromium.launch({
 		executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
-		args: ['--no-sandbox']
+		args: ['--no-sandbox', '--autoplay-policy=no-user-gesture-required']
 	});
 	try {
 		const page = await browser.newPage();
@@ -63,6 +75,23 @@ export default async function audioBench(report: (f: Figure) => void) {
 		for (let i = 0; i < 3; i++) times.push((await run()).renderMs);
 		const median = times.sort((a, b) => a - b)[1];
 		report({ name: 'audio.render_x_realtime', value: Math.round(((SECONDS * 1000) / median) * 10) / 10, unit: 'x' });
+
+		const live = await page.evaluate(
+			(n) =>
+				(
+					window as unknown as {
+						padproofLive: (n: number) => Promise<{ addedMs: number[]; baseLatencyMs: number; outputLatencyMs: number }>;
+					}
+				).padproofLive(n),
+			LIVE_EVENTS
+		);
+		if (live.addedMs.length < LIVE_EVENTS / 2) throw new Error(`only ${live.addedMs.length} live events scheduled`);
+		report({ name: 'audio.live_added_ms_p99', value: round2(p99(live.addedMs)), unit: 'ms' });
+		// A browser that does not know a latency leaves it out (headless Chromium may not report outputLatency).
+		if (Number.isFinite(live.baseLatencyMs))
+			report({ name: 'audio.base_latency_ms', value: round2(live.baseLatencyMs), unit: 'ms' });
+		if (Number.isFinite(live.outputLatencyMs))
+			report({ name: 'audio.output_latency_ms', value: round2(live.outputLatencyMs), unit: 'ms' });
 	} finally {
 		await browser.close();
 		await server.close();

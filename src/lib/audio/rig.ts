@@ -11,7 +11,7 @@ import { loadCrusher } from './effects/crusher-worklet';
 import type { DemoLoop } from './loops/patterns';
 import { MasterBus } from './master';
 import { quietRig, writeChange, type Touched } from './rig-state';
-import { exactTime, liveTime, onFrame } from './schedule-time';
+import { changeTime, onFrame } from './schedule-time';
 
 /**
  * Seconds between an event's time and when its changes sound in a real-time exact rig (replay
@@ -83,7 +83,7 @@ export class AudioRig {
 
 	/** When an event at session time `t` sounds: the next render quantum live, its own time otherwise. */
 	scheduleAt(t: number): number {
-		return this.live ? liveTime(this.context) : exactTime(this.context, this.origin + t / 1000 + this.lookAhead);
+		return changeTime(this.context, this.live, this.origin + t / 1000 + this.lookAhead);
 	}
 
 	/** Follows a list of engine changes; consecutive changes of one event share one time. */

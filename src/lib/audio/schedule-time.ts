@@ -32,3 +32,12 @@ export function onFrame(seconds: number, sampleRate: number): number {
 export function exactTime(clock: AudioClock, seconds: number): number {
 	return Math.max(onFrame(seconds, clock.sampleRate), clock.currentTime);
 }
+
+/**
+ * When one event's changes sound: live rigs at the next render quantum whatever the event's own
+ * time says (its clock and the audio clock drift, and the audio clock moves in bursts), exact
+ * rigs at `at` seconds on the context clock.
+ */
+export function changeTime(clock: AudioClock, live: boolean, at: number): number {
+	return live ? liveTime(clock) : exactTime(clock, at);
+}

@@ -61,8 +61,8 @@ export class ControllerRig {
 		if (output) this.#light(output);
 	}
 
-	show(lit: Set<string>): void {
-		this.lights.show(lit);
+	show(lit: Set<string>, dim?: Set<string>): void {
+		this.lights.show(lit, dim);
 	}
 
 	/** Lights off, holds released, listeners gone: the page is closing or moving on. */

@@ -21,6 +21,12 @@ export interface LightOptions {
 	cancel?: (handle: unknown) => void;
 }
 
+/** A quarter of the lit velocity, at least 1 and never the dark velocity. */
+export function dimVelocity(led: { on: number; off: number }): number {
+	const v = Math.max(1, Math.round(led.on / 4));
+	return v === led.off ? v + 1 : v;
+}
+
 export class LightFeedback {
 	readonly #leds = new Map<string, Led>();
 	readonly #sink: MidiSink;
@@ -47,11 +53,19 @@ export class LightFeedback {
 		}
 	}
 
-	/** Asks for exactly these inputs to be lit; sent at the next flush. */
-	show(lit: Iterable<string>): void {
+	/**
+	 * Asks for exactly these inputs to be lit (and `dim` ones lit low); sent at the next flush. A pad
+	 * LED's brightness follows the Note On velocity on most pad controllers (common practice), so
+	 * dim is a quarter of the profile's lit velocity.
+	 */
+	show(lit: Iterable<string>, dim: Iterable<string> = []): void {
 		const set = new Set(lit);
+		const low = new Set(dim);
 		const wanted = new Map<string, number>();
-		for (const [id, led] of this.#leds) wanted.set(id, set.has(id) ? led.on : led.off);
+		for (const [id, led] of this.#leds) {
+			const velocity = set.has(id) ? led.on : low.has(id) ? dimVelocity(led) : led.off;
+			wanted.set(id, velocity);
+		}
 		this.#wanted = wanted;
 		if (this.#timer !== null) return;
 		const wait = Math.max(0, this.#lastFlush + this.#interval - this.#now());

@@ -137,6 +137,7 @@ export function litInputs(mapping: Mapping, state: RigState): Set<string> {
 export class LightBank {
 	#outputs = new Map<string, LightFeedback>();
 	#lit: Set<string> = new Set();
+	#dim: Set<string> = new Set();
 	#options: LightOptions;
 
 	constructor(options: LightOptions = {}) {
@@ -152,7 +153,7 @@ export class LightBank {
 		this.detach(portId);
 		const lights = new LightFeedback(profile, sink, this.#options);
 		this.#outputs.set(portId, lights);
-		lights.show(this.#lit);
+		lights.show(this.#lit, this.#dim);
 	}
 
 	/** Darkens the port if it can still hear us, then forgets it. */
@@ -161,9 +162,11 @@ export class LightBank {
 		this.#outputs.delete(portId);
 	}
 
-	show(lit: Set<string>): void {
+	/** `dim`: held pads of a hold group another pad's setting won (see `padLights`). */
+	show(lit: Set<string>, dim: Set<string> = new Set()): void {
 		this.#lit = lit;
-		for (const lights of this.#outputs.values()) lights.show(lit);
+		this.#dim = dim;
+		for (const lights of this.#outputs.values()) lights.show(lit, dim);
 	}
 
 	flush(): void {

@@ -18,7 +18,7 @@ import {
 import { ControllerRig } from '$lib/midi/controller-rig.svelte';
 import type { Decoded } from '$lib/midi/decode';
 import type { HubEvent } from '$lib/midi/input-hub.svelte';
-import { litInputs } from '$lib/midi/pad-lights';
+import { padLights } from '$lib/midi/pad-lights';
 import { SessionRecorder } from '$lib/recorder/session-recorder.svelte';
 import { LiveFindings } from './live-findings.svelte';
 import { RoomClock } from './room-clock';
@@ -115,8 +115,14 @@ export class RehearsalRoom {
 		return this.#now() - this.#t0;
 	}
 
+	/** Pads whose effect sounds (a hold group's sounding pad). */
 	get lit(): Set<string> {
-		return litInputs(this.mapping, this.state);
+		return padLights(this.mapping, this.state).lit;
+	}
+
+	/** Held pads of a hold group whose own setting is not the one sounding. */
+	get dim(): Set<string> {
+		return padLights(this.mapping, this.state).dim;
 	}
 
 	get held(): ReadonlySet<string> {
@@ -219,7 +225,7 @@ export class RehearsalRoom {
 		this.events = 0;
 		this.state = initialRigState(this.mapping);
 		this.findings.reset();
-		this.controllers.show(this.lit);
+		this.controllers.show(this.lit, this.dim);
 		this.sound.sync(this.state);
 	}
 
@@ -282,7 +288,7 @@ export class RehearsalRoom {
 		this.#landed[e.index] = true;
 		this.state = e.state;
 		this.events = this.#landed.length;
-		this.controllers.show(this.lit);
+		this.controllers.show(this.lit, this.dim);
 		if (e.changes.length) this.sound.apply(e.changes);
 		const event = this.#inputs[e.index];
 		if (event) this.findings.follow(e, event, () => this.#inputs.filter((_, i) => this.#landed[i]), this.clock);

@@ -73,9 +73,9 @@ export class RoomSound {
 			const ctx = tone.getContext();
 			const now = ctx.currentTime;
 			const roomTime = beginBeat();
-			this.#rig = await AudioRig.create({ tempo: this.#clock.tempo, origin: now, state });
-			// Session time 0 (room ms 0) on the audio clock: pad changes at room time t sound at
-			// origin + t/1000 + the look-ahead.
+			// A live rig: a pad's changes sound from the next render quantum, not behind a look-ahead.
+			this.#rig = await AudioRig.create({ tempo: this.#clock.tempo, origin: now, live: true, state });
+			// Session time 0 (room ms 0) on the audio clock: the loops' and the metronome's beat grid.
 			this.#rig.origin = now - roomTime / 1000;
 			this.#rig.master.setLevel(this.masterDb, ctx.currentTime);
 			this.#rig.master.output.toDestination();
@@ -139,7 +139,7 @@ export class RoomSound {
 		return this.#capture.stream;
 	}
 
-	/** Where room time falls on the loops' beat clock (pad changes sound a look-ahead later). */
+	/** Where room time falls on the loops' beat clock. */
 	#contextTime(roomTime: number): number {
 		return this.#rig ? this.#rig.origin + roomTime / 1000 : 0;
 	}
