@@ -1,6 +1,13 @@
 import { db } from '$lib/server/db';
 import { readJson, refusalResponse, signedIn } from '$lib/server/http';
-import { deleteMapping, getMapping, saveVersion, setVisibility } from '$lib/server/mappings';
+import {
+	deleteMapping,
+	getMapping,
+	renameMapping,
+	saveVersion,
+	setVisibility,
+	VersionConflict
+} from '$lib/server/mappings';
 import { json } from '@sveltejs/kit';
 import { z } from 'zod';
 import type { RequestHandler } from './$types';
@@ -24,9 +31,15 @@ export const GET: RequestHandler = async ({ locals, params, url }) => {
 export const PUT: RequestHandler = async ({ locals, params, request }) => {
 	try {
 		const user = signedIn(locals);
-		const body = await readJson(request, z.object({ document: z.unknown() }), 2 << 20);
-		return json({ version: await saveVersion(db, user.id, params.id, body.document) });
+		const body = await readJson(
+			request,
+			z.object({ document: z.unknown(), baseVersion: z.number().int().min(1).optional() }),
+			2 << 20
+		);
+		return json({ version: await saveVersion(db, user.id, params.id, body.document, body.baseVersion) });
 	} catch (e) {
+		if (e instanceof VersionConflict)
+			return json({ error: e.message, problems: e.problems, newest: e.newest }, { status: 409 });
 		return refusalResponse(e);
 	}
 };
@@ -34,7 +47,14 @@ export const PUT: RequestHandler = async ({ locals, params, request }) => {
 export const PATCH: RequestHandler = async ({ locals, params, request }) => {
 	try {
 		const user = signedIn(locals);
-		const body = await readJson(request, z.object({ visibility: z.enum(['private', 'public']) }));
+		const body = await readJson(
+			request,
+			z.union([
+				z.object({ visibility: z.enum(['private', 'public']) }),
+				z.object({ name: z.string().trim().min(1, 'A mapping needs a name.').max(120) })
+			])
+		);
+		if ('name' in body) return json({ version: await renameMapping(db, user.id, params.id, body.name) });
 		await setVisibility(db, user.id, params.id, body.visibility);
 		return json({ ok: true });
 	} catch (e) {
