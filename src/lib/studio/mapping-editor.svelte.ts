@@ -52,10 +52,15 @@ export class MappingEditor {
 		return this.doc.bindings.find((b) => b.input === input);
 	}
 
-	/** Applies a change to a copy of the document; returns the problems when it doesn't check. */
+	/**
+	 * Applies a change to a copy of the document when the result passes the engine's schema; else
+	 * leaves the document as it was and returns the problems (so a form can show them).
+	 */
 	change(edit: (draft: Mapping) => void): Problem[] {
 		const draft = copy(this.doc);
 		edit(draft);
+		const parsed = parseMapping(draft);
+		if (!parsed.ok) return parsed.problems;
 		this.#past = [...this.#past.slice(-LIMIT + 1), this.doc];
 		this.#future = [];
 		return this.#set(draft);

@@ -11,6 +11,8 @@ export class VerifyClient {
 	error = $state<string | null>(null);
 	/** The group the current or last proof is about. */
 	group = $state<string | null>(null);
+	/** The document the current or last proof is about (an answer for another one no longer holds). */
+	mapping = $state.raw<Mapping | null>(null);
 	#worker: Worker | null = null;
 	#make: () => Worker;
 
@@ -22,6 +24,7 @@ export class VerifyClient {
 		const worker = (this.#worker ??= this.#listen(this.#make()));
 		this.status = 'running';
 		this.group = group;
+		this.mapping = mapping;
 		this.progress = null;
 		this.result = null;
 		this.error = null;
