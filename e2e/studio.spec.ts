@@ -76,7 +76,11 @@ test('a new user builds an echo pad and a stutter row, proves the row, breaks it
 
 	// Take the guard off the release step that switches the row's rack off.
 	await page.getByTestId('studio-pad-pad-13').click();
-	await page.getByTestId('pad-editor').getByTestId('lane-release').getByRole('button', { name: /switch off when held = 1/ }).click();
+	await page
+		.getByTestId('pad-editor')
+		.getByTestId('lane-release')
+		.getByRole('button', { name: /switch off when held = 1/ })
+		.click();
 	const form = page.getByTestId('step-editor');
 	await form.getByRole('button', { name: 'Remove guard 1' }).click();
 	await form.getByRole('button', { name: 'Save step' }).click();

@@ -2,7 +2,7 @@ import { describe, expect, it, vi } from 'vitest';
 import { render, screen } from '@testing-library/svelte';
 import userEvent from '@testing-library/user-event';
 import StepEditor from '$lib/components/studio/StepEditor.svelte';
-import type { Step } from '$lib/engine';
+import type { Problem, Step } from '$lib/engine';
 
 // Typing through user-event is slow in jsdom on a shared machine.
 vi.setConfig({ testTimeout: 20_000 });
@@ -16,7 +16,7 @@ const mapping = {
 	counters: [{ id: 'held', max: 15, rest: 0 }]
 };
 
-function setup(step: Step, onsave = vi.fn(() => [])) {
+function setup(step: Step, onsave = vi.fn((): Problem[] => [])) {
 	const oncancel = vi.fn();
 	render(StepEditor, { step, number: 3, mapping, onsave, oncancel });
 	return { onsave, oncancel, user: userEvent.setup() };
@@ -60,7 +60,7 @@ describe('StepEditor', () => {
 	});
 
 	it('shows the problems the mapping check answers and keeps the form open', async () => {
-		const onsave = vi.fn(() => [{ path: 'bindings[0].steps[2]', message: 'rack 2 isn’t declared' }]);
+		const onsave = vi.fn((): Problem[] => [{ path: 'bindings[0].steps[2]', message: 'rack 2 isn’t declared' }]);
 		const { user } = setup({ target: { kind: 'rack-on', rack: 1 }, action: 'toggle' }, onsave);
 		await user.click(screen.getByRole('button', { name: 'Save step' }));
 		expect(screen.getByTestId('step-problems')).toHaveTextContent('rack 2 isn’t declared');

@@ -110,6 +110,13 @@ function chainsIn(steps: Step[]): Map<number, (string | null)[]> {
 	return out;
 }
 
+/** Step `index` of a binding on its own, naming effects its own chain loads ("Stutter slice 1/4"). */
+export function describeStepIn(steps: Step[], index: number): string {
+	const step = steps[index];
+	const rack = rackOf(step);
+	return describeStep(step, rack === null ? [] : (chainsIn(steps).get(rack) ?? []));
+}
+
 const sameGuards = (a: Step, b: Step) => JSON.stringify(a.guards ?? []) === JSON.stringify(b.guards ?? []);
 
 /** Phrases for one lane: chain loads absorb their parameters, route steps of a rack fold together. */

@@ -1,7 +1,7 @@
 // The difference between two versions of a mapping, in plain words, by pad and by step. Pure: the
 // server answers `GET /api/mappings/[id]/diff` with it and tests read it directly.
 import type { Binding, Mapping } from '$lib/engine';
-import { describeBinding, describeStep, padName } from './describe';
+import { describeBinding, describeStepIn, padName } from './describe';
 
 export interface DiffEntry {
 	/** What the change is about: "the mapping", "racks", or a pad's name. */
@@ -29,9 +29,13 @@ function stepsDiff(about: string, a: Binding, b: Binding, out: DiffEntry[]) {
 		const was = a.steps[i];
 		const now = b.steps[i];
 		if (was && now && same(was, now)) continue;
-		if (!was) out.push({ about, text: `step ${i + 1} added: ${describeStep(now)}` });
-		else if (!now) out.push({ about, text: `step ${i + 1} removed: ${describeStep(was)}` });
-		else out.push({ about, text: `step ${i + 1} changed from “${describeStep(was)}” to “${describeStep(now)}”` });
+		if (!was) out.push({ about, text: `step ${i + 1} added: ${describeStepIn(b.steps, i)}` });
+		else if (!now) out.push({ about, text: `step ${i + 1} removed: ${describeStepIn(a.steps, i)}` });
+		else
+			out.push({
+				about,
+				text: `step ${i + 1} changed from “${describeStepIn(a.steps, i)}” to “${describeStepIn(b.steps, i)}”`
+			});
 	}
 }
 
