@@ -9,6 +9,7 @@ import {
 	saveVersion,
 	VersionConflict
 } from '$lib/server/mappings';
+import { deleteLayout, listLayouts, saveLayout } from '$lib/server/controllers';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { demoDatabase } from './factories';
 
@@ -55,5 +56,35 @@ describe('forking', () => {
 	it('cannot fork someone’s private mapping', async () => {
 		const id = await createMapping(t.db, t.lena, { document: demoMapping('two-deck'), name: 'Lena set' });
 		await expect(forkMapping(t.db, t.kai, id)).rejects.toMatchObject({ status: 404 });
+	});
+});
+
+describe('learned controller layouts', () => {
+	const layout = (name: string, note = 60) => ({
+		name,
+		rows: 1,
+		cols: 2,
+		inputs: [0, 1].map((i) => ({ id: `p${i}`, kind: 'pad', channel: 10, note: note + i, row: 0, col: i }))
+	});
+
+	it('keeps one layout per name for its owner only', async () => {
+		await saveLayout(t.db, t.kai, layout('Bench pads'));
+		await saveLayout(t.db, t.kai, layout('Bench pads', 70));
+		const kai = await listLayouts(t.db, t.kai);
+		expect(kai).toHaveLength(1);
+		expect(kai[0].profile.inputs[0].note).toBe(70);
+		expect(await listLayouts(t.db, t.lena)).toEqual([]);
+		await expect(deleteLayout(t.db, t.lena, kai[0].id)).rejects.toMatchObject({ status: 404 });
+		await deleteLayout(t.db, t.kai, kai[0].id);
+		expect(await listLayouts(t.db, t.kai)).toEqual([]);
+	});
+
+	it('refuses a layout whose inputs share an id, saying where', async () => {
+		const bad = layout('Twins');
+		bad.inputs[1].id = 'p0';
+		const error = await saveLayout(t.db, t.kai, bad).catch((e) => e);
+		expect(error.status).toBe(400);
+		expect(error.problems[0]).toMatchObject({ path: 'inputs[1].id', message: 'another input is already called "p0"' });
+		expect(await listLayouts(t.db, t.kai)).toEqual([]);
 	});
 });
