@@ -1,6 +1,7 @@
 import AxeBuilder from '@axe-core/playwright';
 import { expect as baseExpect, test, type Page } from '@playwright/test';
 import { readFileSync } from 'node:fs';
+import { installFakeMidi, ONE_CONTROLLER } from './fake-midi';
 import { open } from './support';
 
 test.setTimeout(240_000);
@@ -306,4 +307,29 @@ test('a whole pad is built from the keyboard, and the editor’s form fields all
 	const row = await new AxeBuilder({ page }).include('dialog[open]').withRules(labelRules).analyze();
 	expect(row.violations).toEqual([]);
 	await page.screenshot({ path: 'test-results/studio-row-dialog.png' });
+});
+
+test('MIDI learn gives a pad the note it was heard on, and try pads offers your own mappings', async ({ page }) => {
+	const midi = await installFakeMidi(page, { ports: ONE_CONTROLLER });
+	await signUp(page, 'Mo');
+	await newMapping(page, 'Learned set');
+	const id = mappingId(page);
+	await buildEchoPad(page);
+	await page.getByRole('button', { name: 'MIDI learn this pad' }).click();
+	await expect(page.getByTestId('learn-status')).toContainText('Press the pad on your controller');
+	// MIDI 1.0: 0x99 = Note On, channel 10; note 60 is taken by nothing yet.
+	await midi.send('pads-in', [0x99, 60, 100]);
+	await expect(page.getByTestId('learn-status')).toContainText('Learned: note 60 on channel 10');
+	await expect(page.getByTestId('pad-editor')).toContainText('note 60, channel 10');
+	await saved(page);
+	const input = (
+		(await documentOf(page, id)).document as { profile: { inputs: { id: string }[] } }
+	).profile.inputs.find((i) => i.id === 'pad-1');
+	expect(input).toMatchObject({ channel: 10, note: 60, led: { note: 60 } });
+
+	await open(page, '/controllers');
+	const tryPads = page.getByTestId('try-pads');
+	await tryPads.getByLabel('Mapping').selectOption({ label: 'Learned set' });
+	await expect(tryPads).toContainText('One of your own mappings');
+	await expect(tryPads.getByRole('button', { name: /^Echo A/ })).toBeVisible();
 });
