@@ -41,6 +41,11 @@ test('a learned layout is saved with the user’s mapping as a new version', asy
 	await expect(panel.getByRole('status')).toContainText('16 inputs moved');
 	await expect(panel.getByRole('status')).toContainText('version 2');
 
+	// The layout moved from this browser to the account.
+	expect(await page.evaluate(() => localStorage.getItem('padproof.controller-profiles'))).toBeNull();
+	const { layouts } = await (await page.request.get('/api/controllers')).json();
+	expect(layouts.map((l: { name: string }) => l.name)).toEqual(['Bench pads']);
+
 	const saved = (await (await page.request.get(`/api/mappings/${id}`)).json()).mapping;
 	expect(saved.version).toBe(2);
 	const pad13 = saved.document.profile.inputs.find((i: { id: string }) => i.id === 'pad-13');

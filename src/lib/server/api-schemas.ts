@@ -15,8 +15,16 @@ export const newMappingBody = z.object({
 });
 
 export const mappingVersionBody = z.object({
-	document: z.unknown().meta({ description: 'The changed mapping document, saved as the next version.' })
+	document: z.unknown().meta({ description: 'The changed mapping document, saved as the next version.' }),
+	baseVersion: z
+		.number()
+		.int()
+		.min(1)
+		.optional()
+		.meta({ description: 'The version the change started from; a newer one answers 409 with the newest.' })
 });
+
+export const mappingRenameBody = z.object({ name: z.string().trim().min(1, 'A mapping needs a name.').max(120) });
 
 export const mappingVisibilityBody = z.object({ visibility });
 

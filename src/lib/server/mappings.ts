@@ -154,18 +154,67 @@ async function owned(db: Database, userId: string, id: string) {
 	return row;
 }
 
-/** Saves a changed document as the next version; earlier versions stay for the sessions pinned to them. */
-export async function saveVersion(db: Database, userId: string, id: string, input: unknown): Promise<number> {
+/** A save that started from an older version than the newest: refused, with the newest to compare. */
+export class VersionConflict extends Refusal {
+	constructor(readonly newest: { version: number; document: Mapping }) {
+		super(
+			409,
+			`This mapping was changed elsewhere: version ${newest.version} is newer than the one you started from. Nothing was overwritten.`
+		);
+	}
+}
+
+/**
+ * Saves a changed document as the next version; earlier versions stay for the sessions pinned to
+ * them. With `baseVersion`, the save only goes through when that is still the newest version.
+ */
+export async function saveVersion(
+	db: Database,
+	userId: string,
+	id: string,
+	input: unknown,
+	baseVersion?: number
+): Promise<number> {
 	const row = await owned(db, userId, id);
 	const document = checkDocument(input);
-	const version = row.currentVersion + 1;
-	await db.transaction(async (tx) => {
+	const base = baseVersion ?? row.currentVersion;
+	const version = base + 1;
+	const saved = await db.transaction(async (tx) => {
+		// The compare-and-set on currentVersion is what stops two tabs from both saving "version n+1".
+		const moved = await tx
+			.update(mapping)
+			.set({ currentVersion: version, name: document.name })
+			.where(and(eq(mapping.id, id), eq(mapping.currentVersion, base)))
+			.returning({ id: mapping.id });
+		if (moved.length === 0) return false;
 		await tx
 			.insert(mappingVersion)
 			.values({ id: randomUUID(), mappingId: id, version, document, lintCount: lintMapping(document).length });
-		await tx.update(mapping).set({ currentVersion: version, name: document.name }).where(eq(mapping.id, id));
+		return true;
 	});
+	if (!saved) {
+		const newest = await getMapping(db, userId, id);
+		throw new VersionConflict({ version: newest.version, document: newest.document });
+	}
 	return version;
+}
+
+export async function renameMapping(db: Database, userId: string, id: string, name: string) {
+	await owned(db, userId, id);
+	const current = await getMapping(db, userId, id);
+	if (current.document.name === name) return current.version;
+	return saveVersion(db, userId, id, { ...current.document, name }, current.version);
+}
+
+/** Copies the newest version of a mapping you can read into a new private mapping of your own. */
+export async function forkMapping(db: Database, userId: string, id: string, name?: string): Promise<string> {
+	const source = await getMapping(db, userId, id);
+	return createMapping(db, userId, { document: source.document, name: name ?? source.name });
+}
+
+export async function listVersions(db: Database, userId: string, id: string) {
+	const detail = await getMapping(db, userId, id);
+	return detail.versions.map((v) => ({ version: v.version, createdAt: v.createdAt }));
 }
 
 export async function setVisibility(db: Database, userId: string, id: string, visibility: Visibility) {

@@ -1,5 +1,5 @@
 import { sql } from 'drizzle-orm';
-import { index, integer, primaryKey, real, sqliteTable, text } from 'drizzle-orm/sqlite-core';
+import { index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
 import { user } from './auth.schema';
 import type { SessionClock, SessionStart } from '../../engine/types';
 
@@ -101,6 +101,22 @@ export const rehearsalChunk = sqliteTable(
 		receivedAt: now()
 	},
 	(t) => [primaryKey({ columns: [t.rehearsalId, t.seq] })]
+);
+
+/** Controller layouts a user learned with MIDI learn, kept with the account. */
+export const controllerLayout = sqliteTable(
+	'controller_layout',
+	{
+		id: text().primaryKey(),
+		ownerId: text()
+			.notNull()
+			.references(() => user.id, { onDelete: 'cascade' }),
+		name: text().notNull(),
+		profile: text({ mode: 'json' }).notNull(),
+		createdAt: now(),
+		updatedAt: now().$onUpdate(() => new Date())
+	},
+	(t) => [uniqueIndex('controller_layout_owner_name_idx').on(t.ownerId, t.name)]
 );
 
 /**

@@ -1,8 +1,16 @@
 import { db } from '$lib/server/db';
-import { mappingVersionBody, mappingVisibilityBody } from '$lib/server/api-schemas';
+import { mappingRenameBody, mappingVersionBody, mappingVisibilityBody } from '$lib/server/api-schemas';
 import { readJson, refusalResponse, signedIn } from '$lib/server/http';
-import { deleteMapping, getMapping, saveVersion, setVisibility } from '$lib/server/mappings';
+import {
+	deleteMapping,
+	getMapping,
+	renameMapping,
+	saveVersion,
+	setVisibility,
+	VersionConflict
+} from '$lib/server/mappings';
 import { json } from '@sveltejs/kit';
+import { z } from 'zod';
 import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = async ({ locals, params, url }) => {
@@ -25,8 +33,10 @@ export const PUT: RequestHandler = async ({ locals, params, request }) => {
 	try {
 		const user = signedIn(locals);
 		const body = await readJson(request, mappingVersionBody, 2 << 20);
-		return json({ version: await saveVersion(db, user.id, params.id, body.document) });
+		return json({ version: await saveVersion(db, user.id, params.id, body.document, body.baseVersion) });
 	} catch (e) {
+		if (e instanceof VersionConflict)
+			return json({ error: e.message, problems: e.problems, newest: e.newest }, { status: 409 });
 		return refusalResponse(e);
 	}
 };
@@ -34,7 +44,8 @@ export const PUT: RequestHandler = async ({ locals, params, request }) => {
 export const PATCH: RequestHandler = async ({ locals, params, request }) => {
 	try {
 		const user = signedIn(locals);
-		const body = await readJson(request, mappingVisibilityBody);
+		const body = await readJson(request, z.union([mappingVisibilityBody, mappingRenameBody]));
+		if ('name' in body) return json({ version: await renameMapping(db, user.id, params.id, body.name) });
 		await setVisibility(db, user.id, params.id, body.visibility);
 		return json({ ok: true });
 	} catch (e) {
