@@ -124,7 +124,10 @@ describe('DELETE /api/sessions/[id]', () => {
 		} finally {
 			await client.execute('PRAGMA foreign_keys = ON');
 		}
-		const left = await client.execute({ sql: 'select count(*) as n from rehearsal_chunk where rehearsal_id = ?', args: [id] });
+		const left = await client.execute({
+			sql: 'select count(*) as n from rehearsal_chunk where rehearsal_id = ?',
+			args: [id]
+		});
 		expect(Number(left.rows[0].n)).toBe(0);
 	});
 });
