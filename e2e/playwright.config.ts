@@ -63,7 +63,7 @@ export default defineConfig({
 		command: process.env.E2E_DEV ? `npx vite dev --port ${port} --strictPort` : 'npm run build && node build',
 		cwd: '..',
 		url: origin,
-		timeout: 240_000,
+		timeout: 600_000, // the production build alone takes minutes on a busy 2-core machine
 		reuseExistingServer: false,
 		env
 	}

@@ -60,8 +60,8 @@ function slowPut(bytes: Uint8Array, onPiece: (index: number) => Promise<void> | 
 	} as RequestInit);
 }
 
-type Handler = (event: never) => Promise<Response>;
-const call = (handler: Handler, id: string, request = new Request('http://localhost/')) =>
+type Handler = (event: never) => Response | Promise<Response>;
+const call = async (handler: Handler, id: string, request = new Request('http://localhost/')) =>
 	handler({ locals: { user: { id: kai } }, params: { id }, request, url: new URL(request.url) } as never);
 
 const stored = () => readdirSync(join(dir, 'uploads')).filter((name) => !name.startsWith('.'));

@@ -37,6 +37,14 @@ export function drain(reader: ReadableStreamDefaultReader<Uint8Array>) {
 	void next().catch(() => undefined);
 }
 
+/**
+ * Reads and drops a body nobody read (an answer given before the body was needed), so the client
+ * can finish sending and read the answer on a connection that stays usable.
+ */
+export function discardUnread(request: Request) {
+	if (request.body && !request.bodyUsed && !request.body.locked) drain(request.body.getReader());
+}
+
 export const tooLarge = (limit: number) =>
 	`The request is too large (over ${limit >= 1 << 20 ? `${Math.round(limit / (1 << 20))} MiB` : `${Math.round(limit / 1024)} KiB`}).`;
 
@@ -46,7 +54,10 @@ export async function readBytes(
 	limit: number,
 	message = tooLarge(limit)
 ): Promise<Uint8Array<ArrayBuffer>> {
-	if (Number(request.headers.get('content-length') ?? 0) > limit) throw new Refusal(413, message);
+	if (Number(request.headers.get('content-length') ?? 0) > limit) {
+		discardUnread(request);
+		throw new Refusal(413, message);
+	}
 	if (!request.body) return new Uint8Array(0);
 	const reader = request.body.getReader();
 	const parts: Uint8Array[] = [];

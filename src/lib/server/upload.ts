@@ -4,7 +4,7 @@
 import { randomUUID } from 'node:crypto';
 import { open, rm } from 'node:fs/promises';
 import { join } from 'node:path';
-import { drain, Refusal } from './http';
+import { discardUnread, drain, Refusal } from './http';
 import { SNIFF_BYTES } from './sniff';
 import { incomingDir } from './storage';
 
@@ -29,7 +29,10 @@ export interface UploadRules<K> {
 /** Streams the request body to a temporary file under the rules; refuses with 400/413/415. */
 export async function receiveUpload<K>(request: Request, rules: UploadRules<K>): Promise<Received<K>> {
 	const declared = Number(request.headers.get('content-length') ?? NaN);
-	if (declared > rules.limit) throw new Refusal(413, rules.tooLarge);
+	if (declared > rules.limit) {
+		discardUnread(request);
+		throw new Refusal(413, rules.tooLarge);
+	}
 	if (!request.body) {
 		if (declared > 0 && !request.headers.get('content-type'))
 			throw new Refusal(
