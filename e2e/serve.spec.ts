@@ -102,7 +102,7 @@ test.describe('node build', () => {
 		expect(await auth.json()).toEqual({ error: 'The request is too large (over 1 MiB).', problems: [] });
 		// better-auth's own refusals get the shape too (its `message` and `code` stay for its client).
 		const broken = await api.post('/api/auth/sign-in/email', {
-			data: '{"email": broken',
+			data: Buffer.from('{"email": broken'),
 			headers: { 'content-type': 'application/json' }
 		});
 		expect(broken.status()).toBe(400);
