@@ -1,5 +1,6 @@
 import { building } from '$app/environment';
 import { auth } from '$lib/server/auth';
+import { authGate } from '$lib/server/auth-gate';
 import { assertProductionSettings, demoEnabled, isProduction } from '$lib/server/config';
 import { client, db, prepareDatabase } from '$lib/server/db';
 import { seedDemo } from '$lib/server/db/seed';
@@ -23,7 +24,10 @@ export const handle: Handle = async ({ event, resolve }) => {
 	const session = await auth.api.getSession({ headers: event.request.headers });
 	event.locals.user = session?.user ?? null;
 	event.locals.session = session?.session ?? null;
-	const response = await svelteKitHandler({ event, resolve, auth, building });
+	const response =
+		event.url.pathname === '/api/auth' || event.url.pathname.startsWith('/api/auth/')
+			? await authGate(event)
+			: await svelteKitHandler({ event, resolve, auth, building });
 	discardUnread(event.request); // an answer given before the body was read (401, 404, ...)
 	return secureHeaders(await authErrorShape(event, response));
 };

@@ -93,3 +93,13 @@ export function assertProductionSettings(env: NodeJS.ProcessEnv = process.env) {
 	if (problems.length)
 		throw new ConfigError(`Padproof refuses to start in production:\n  - ${problems.join('\n  - ')}`);
 }
+
+/** The sign-in throttle is on unless `PADPROOF_RATE_LIMIT=off` (the browser tests set that). */
+export function rateLimitEnabled(): boolean {
+	return process.env.PADPROOF_RATE_LIMIT !== 'off';
+}
+
+/** A header set by a proxy you run (e.g. `x-forwarded-for`), trusted for the client address; none by default. */
+export function addressHeader(): string | undefined {
+	return process.env.ADDRESS_HEADER?.trim().toLowerCase() || undefined;
+}
