@@ -7,8 +7,9 @@ import { resolve } from 'node:path';
 const port = Number(process.env.E2E_PORT ?? 4173);
 const origin = `http://localhost:${port}`;
 const dataDir = resolve(`e2e/.data/${port}`);
-// A second server on the next port keeps the sign-in throttle on (e2e/throttle.spec.ts).
-const throttledPort = port + 1;
+// A second server keeps the sign-in throttle on (e2e/throttle.spec.ts), 2000 ports up so it
+// never takes the port of someone running the suite next door.
+const throttledPort = port + 2000;
 const throttledDir = resolve(`e2e/.data/${port}-throttled`);
 // Workers load this file again while the server runs: only the runner itself starts afresh.
 if (!process.env.TEST_WORKER_INDEX) {

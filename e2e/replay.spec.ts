@@ -163,7 +163,8 @@ test('the session downloads as JSON and as a Standard MIDI File', async ({ page,
 
 	const [json] = await Promise.all([page.waitForEvent('download'), page.getByTestId('export-json').click()]);
 	const doc = JSON.parse(await readFile((await json.path())!, 'utf8'));
-	expect(doc.version).toBe(1);
+	expect(doc.version).toBe(2); // with the beat clock the take was played on
+	expect(doc.clock.tempos.length).toBeGreaterThan(0);
 	expect(doc.events.map((e: { t: number }) => e.t)).toEqual([PRESS_13, PRESS_14, RELEASE_13, RELEASE_14]);
 
 	const [midi] = await Promise.all([page.waitForEvent('download'), page.getByTestId('export-midi').click()]);

@@ -47,7 +47,7 @@ export async function touchScreen(page: Page) {
 }
 
 /** The server with the sign-in throttle on (second web server of playwright.config.ts). */
-export const THROTTLED_ORIGIN = `http://localhost:${Number(process.env.E2E_PORT ?? 4173) + 1}`;
+export const THROTTLED_ORIGIN = `http://localhost:${Number(process.env.E2E_PORT ?? 4173) + 2000}`;
 
 /** Signs up a fresh account through the form and waits for the home page. */
 export async function signUp(page: Page, name: string, email: string, password: string) {

@@ -50,7 +50,8 @@ describe('database module', () => {
 	});
 });
 
-describe('demo school', () => {
+// Seeding hashes five passwords (scrypt): seconds on a busy machine.
+describe('demo school', { timeout: 30_000 }, () => {
 	it('seeds one admin, one teacher and three students, once', async () => {
 		expect(await seedDemo(handle.db)).toBe(DEMO_USERS.length);
 		expect(await seedDemo(handle.db)).toBe(0);
@@ -59,7 +60,7 @@ describe('demo school', () => {
 	});
 });
 
-describe('changeRole', () => {
+describe('changeRole', { timeout: 30_000 }, () => {
 	it('promotes a student to teacher', async () => {
 		await seedDemo(handle.db);
 		const kai = (await listUsers(handle.db, 'kai@')).at(0)!;

@@ -25,7 +25,7 @@ afterEach(() => {
 
 const throttle = () => new Throttle(handle.db, { enabled: true, now });
 
-describe('per account', () => {
+describe('per account', { timeout: 30_000 }, () => {
 	it('locks an account after 10 failed attempts from any mix of addresses, with a clear message', async () => {
 		const t = throttle();
 		for (let i = 0; i < 10; i++) {
@@ -90,7 +90,8 @@ describe('per account', () => {
 	});
 });
 
-describe('per address', () => {
+// Hundreds of writes to a database file: seconds on a busy machine.
+describe('per address', { timeout: 30_000 }, () => {
 	it('lets a whole class behind one router sign in (60 attempts in a minute) and refuses past the limit', async () => {
 		const t = throttle();
 		expect(RULES.address.limit).toBeGreaterThanOrEqual(60);

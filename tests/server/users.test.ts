@@ -19,10 +19,10 @@ let ines: string;
 beforeEach(async () => {
 	t = await demoDatabase();
 	ines = (await listUsers(t.db, 'ines@'))[0].id;
-});
+}, 30_000);
 afterEach(() => t.close());
 
-describe('the last admin', () => {
+describe('the last admin', { timeout: 30_000 }, () => {
 	it('survives two admins demoting each other at the same moment from two app instances', async () => {
 		await changeRole(t.db, t.teacher, 'admin');
 		const other = openDatabase(`file:${t.file}`);
@@ -50,7 +50,7 @@ describe('the last admin', () => {
 	});
 });
 
-describe('deleting an account’s data', () => {
+describe('deleting an account’s data', { timeout: 30_000 }, () => {
 	it('removes the person’s sessions and mappings, keeps public mappings others rehearsed with for an admin', async () => {
 		const demos = await listMappings(t.db, t.teacher);
 		const used = demos.find((m) => m.name === 'Two-deck pad set')!;
