@@ -111,10 +111,11 @@ describe('the kind of an upload is read from its bytes', () => {
 
 describe('the size of an upload is counted while it streams', () => {
 	it('refuses a declared length over the limit before reading the body', async () => {
-		const { request } = counted(wav(), { 'content-length': String(5 << 20) });
+		// An endless body: were it read before refusing, this would never answer.
+		const { request } = counted('endless', { 'content-length': String(5 << 20) });
 		const e = await refusal(receiveUpload(request, rules(1 << 20)));
 		expect(e.status).toBe(413);
-		expect(request.bodyUsed).toBe(false);
+		expect(incoming()).toEqual([]);
 	});
 
 	it('refuses an endless body without a declared length as soon as it crosses the limit', async () => {
