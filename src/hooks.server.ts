@@ -2,22 +2,34 @@ import { building } from '$app/environment';
 import { auth } from '$lib/server/auth';
 import { authGate } from '$lib/server/auth-gate';
 import { warmAnalysisWorkers } from '$lib/server/analysis/pool';
-import { demoEnabled } from '$lib/server/config';
+import { assertProductionSettings, demoEnabled, isProduction } from '$lib/server/config';
 import { client, db, prepareDatabase } from '$lib/server/db';
 import { seedDemo } from '$lib/server/db/seed';
+import { authErrorShape, limitBody, secureHeaders } from '$lib/server/guard';
+import { discardUnread } from '$lib/server/http';
+import { sweepIncoming } from '$lib/server/storage';
 import type { Handle, ServerInit } from '@sveltejs/kit';
 import { svelteKitHandler } from 'better-auth/svelte-kit';
 
 export const init: ServerInit = async () => {
+	assertProductionSettings();
 	await prepareDatabase(client, db);
-	if (demoEnabled()) await seedDemo(db);
+	// In production the demo school (PADPROOF_DEMO=1) gets fresh passwords, printed once.
+	if (demoEnabled()) await seedDemo(db, { randomPasswords: isProduction() });
+	await sweepIncoming();
 	void warmAnalysisWorkers().catch((e) => console.error('The analysis workers did not start:', e));
 };
 
 export const handle: Handle = async ({ event, resolve }) => {
+	const refused = await limitBody(event);
+	if (refused) return secureHeaders(refused);
 	const session = await auth.api.getSession({ headers: event.request.headers });
 	event.locals.user = session?.user ?? null;
 	event.locals.session = session?.session ?? null;
-	if (event.url.pathname === '/api/auth' || event.url.pathname.startsWith('/api/auth/')) return authGate(event);
-	return svelteKitHandler({ event, resolve, auth, building });
+	const response =
+		event.url.pathname === '/api/auth' || event.url.pathname.startsWith('/api/auth/')
+			? await authGate(event)
+			: await svelteKitHandler({ event, resolve, auth, building });
+	discardUnread(event.request); // an answer given before the body was read (401, 404, ...)
+	return secureHeaders(await authErrorShape(event, response));
 };

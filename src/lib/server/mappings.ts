@@ -1,11 +1,11 @@
 // Mappings in the database: a row per mapping and a row per version of its document. Only the
 // owner changes or deletes a mapping; public mappings can be read (and rehearsed) by everyone.
 import { DEMO_MAPPINGS, lintMapping, parseMapping, type Mapping } from '$lib/engine';
-import { and, count, desc, eq, isNull, or } from 'drizzle-orm';
+import { and, count, desc, eq, inArray, isNull, or } from 'drizzle-orm';
 import { randomUUID } from 'node:crypto';
 import { limits } from './config';
 import type { Database } from './db';
-import { mapping, mappingVersion, user } from './db/schema';
+import { mapping, mappingVersion, rehearsal, user } from './db/schema';
 import { Refusal } from './http';
 
 export type Visibility = 'private' | 'public';
@@ -222,9 +222,19 @@ export async function setVisibility(db: Database, userId: string, id: string, vi
 	await db.update(mapping).set({ visibility }).where(eq(mapping.id, id));
 }
 
+/**
+ * Deletes a mapping and its versions in one transaction, explicitly (a libSQL server or a pooled
+ * connection may not enforce foreign keys): sessions played with it keep their data and lose the link.
+ */
 export async function deleteMapping(db: Database, userId: string, id: string) {
 	await owned(db, userId, id);
-	await db.delete(mapping).where(eq(mapping.id, id));
+	await db.transaction(async (tx) => {
+		const versions = tx.select({ id: mappingVersion.id }).from(mappingVersion).where(eq(mappingVersion.mappingId, id));
+		await tx.update(rehearsal).set({ mappingVersionId: null }).where(inArray(rehearsal.mappingVersionId, versions));
+		await tx.update(rehearsal).set({ mappingId: null }).where(eq(rehearsal.mappingId, id));
+		await tx.delete(mappingVersion).where(eq(mappingVersion.mappingId, id));
+		await tx.delete(mapping).where(eq(mapping.id, id));
+	});
 }
 
 /** Counts the lint findings of versions saved before the count was kept; returns how many it filled in. */

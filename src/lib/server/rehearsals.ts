@@ -16,7 +16,7 @@ import {
 	type SessionDocument,
 	type SessionEvent
 } from '$lib/engine';
-import { and, asc, count, desc, eq, sql } from 'drizzle-orm';
+import { and, asc, count, desc, eq, isNull, sql } from 'drizzle-orm';
 import { randomUUID } from 'node:crypto';
 import { z } from 'zod';
 import { countFindingsOffThread } from './analysis/pool';
@@ -50,6 +50,9 @@ async function mine(db: Database, userId: string, id: string): Promise<Rehearsal
 		throw new Refusal(404, 'That session does not exist, or it belongs to someone else.');
 	return row;
 }
+
+/** The session row, when it is the user's; 404 otherwise. */
+export const getRehearsalRow = mine;
 
 export async function createRehearsal(db: Database, userId: string, input: z.infer<typeof newRehearsalSchema>) {
 	const m = await getMapping(db, userId, input.mappingId);
@@ -211,9 +214,23 @@ export async function getRehearsal(db: Database, userId: string, id: string) {
 	return { row, session, mapping: await pinnedMapping(db, row) };
 }
 
+/**
+ * Deletes a session and its chunks in one transaction (explicitly: no reliance on a connection's
+ * foreign-key pragma). Answers the row as it was when deleted, so the caller removes the audio
+ * file attached at that moment, also when an upload attached one meanwhile.
+ */
 export async function deleteRehearsal(db: Database, userId: string, id: string) {
-	const row = await mine(db, userId, id);
-	await db.delete(rehearsal).where(eq(rehearsal.id, id));
+	await mine(db, userId, id);
+	const [row] = await serialWrite(() =>
+		db.transaction(async (tx) => {
+			await tx.delete(rehearsalChunk).where(eq(rehearsalChunk.rehearsalId, id));
+			return tx
+				.delete(rehearsal)
+				.where(and(eq(rehearsal.id, id), eq(rehearsal.ownerId, userId)))
+				.returning();
+		})
+	);
+	if (!row) throw new Refusal(404, 'That session does not exist, or it belongs to someone else.');
 	return row;
 }
 
@@ -249,8 +266,26 @@ export async function importSession(db: Database, userId: string, mappingId: str
 	return id;
 }
 
+/**
+ * Points the session at a newly stored audio file and answers the file it replaces (for the caller
+ * to remove). Compare-and-set: the update only lands when the row still holds the file read just
+ * before, so of two uploads racing, each replaced file is answered exactly once; a session
+ * deleted meanwhile answers 404 and the caller removes its new file.
+ */
 export async function attachAudio(db: Database, userId: string, id: string, file: string, type: string, bytes: number) {
-	const row = await mine(db, userId, id);
-	await db.update(rehearsal).set({ audioFile: file, audioType: type, audioBytes: bytes }).where(eq(rehearsal.id, id));
-	return row.audioFile;
+	for (let attempt = 0; attempt < 50; attempt++) {
+		const row = await mine(db, userId, id);
+		const updated = await db
+			.update(rehearsal)
+			.set({ audioFile: file, audioType: type, audioBytes: bytes })
+			.where(
+				and(
+					eq(rehearsal.id, id),
+					row.audioFile === null ? isNull(rehearsal.audioFile) : eq(rehearsal.audioFile, row.audioFile)
+				)
+			)
+			.returning({ id: rehearsal.id });
+		if (updated.length) return row.audioFile;
+	}
+	throw new Refusal(409, 'The recording changed too often at once; try the upload again.');
 }

@@ -2,7 +2,7 @@ import { and, asc, count, eq, inArray, ne, or, sql, type Column } from 'drizzle-
 import { serialWrite, type Database } from './db';
 import { mapping, mappingVersion, rehearsal, rehearsalChunk, user } from './db/schema';
 import type { Role } from './roles';
-import { removeUpload } from './storage';
+import { uploadStore } from './storage';
 
 export interface UserRow {
 	id: string;
@@ -114,11 +114,14 @@ export async function lastAdminProblem(db: Database, userId: string): Promise<st
  * Does not rely on foreign-key cascades (a per-connection setting in SQLite).
  */
 export async function deleteAccountData(db: Database, userId: string, heirId: string | null) {
-	const files = await db.select({ file: rehearsal.audioFile }).from(rehearsal).where(eq(rehearsal.ownerId, userId));
+	const files: { file: string | null }[] = [];
 	const kept = await writeTransaction(db, async (tx) => {
 		const ownRehearsals = tx.select({ id: rehearsal.id }).from(rehearsal).where(eq(rehearsal.ownerId, userId));
 		await tx.delete(rehearsalChunk).where(inArray(rehearsalChunk.rehearsalId, ownRehearsals));
-		await tx.delete(rehearsal).where(eq(rehearsal.ownerId, userId));
+		// The files held at the moment of deletion, also one an upload attached just before.
+		files.push(
+			...(await tx.delete(rehearsal).where(eq(rehearsal.ownerId, userId)).returning({ file: rehearsal.audioFile }))
+		);
 
 		const usedByOthers = await tx
 			.selectDistinct({ id: mapping.id })
@@ -139,7 +142,7 @@ export async function deleteAccountData(db: Database, userId: string, heirId: st
 		await tx.delete(mapping).where(eq(mapping.ownerId, userId));
 		return keep.length;
 	});
-	for (const { file } of files) await removeUpload(file);
+	for (const { file } of files) if (file) await uploadStore().remove(file);
 	return { keptMappings: kept };
 }
 

@@ -2,8 +2,8 @@ import { clockSchema } from '$lib/engine';
 import { db } from '$lib/server/db';
 import { changeSessionBody } from '$lib/server/api-schemas';
 import { readJson, refusalResponse, signedIn } from '$lib/server/http';
-import { deleteRehearsal, finishRehearsal, renameRehearsal, sessionDocument } from '$lib/server/rehearsals';
-import { removeUpload } from '$lib/server/storage';
+import { finishRehearsal, renameRehearsal, sessionDocument } from '$lib/server/rehearsals';
+import { deleteSession } from '$lib/server/session-audio';
 import { json } from '@sveltejs/kit';
 import type { RequestHandler } from './$types';
 
@@ -36,8 +36,7 @@ export const PATCH: RequestHandler = async ({ locals, params, request }) => {
 
 export const DELETE: RequestHandler = async ({ locals, params }) => {
 	try {
-		const row = await deleteRehearsal(db, signedIn(locals).id, params.id);
-		await removeUpload(row.audioFile);
+		await deleteSession(db, signedIn(locals).id, params.id);
 		return new Response(null, { status: 204 });
 	} catch (e) {
 		return refusalResponse(e);
