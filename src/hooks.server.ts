@@ -3,12 +3,14 @@ import { auth } from '$lib/server/auth';
 import { demoEnabled } from '$lib/server/config';
 import { client, db, prepareDatabase } from '$lib/server/db';
 import { seedDemo } from '$lib/server/db/seed';
+import { emptyExpiredTrash } from '$lib/server/trash-purge';
 import type { Handle, ServerInit } from '@sveltejs/kit';
 import { svelteKitHandler } from 'better-auth/svelte-kit';
 
 export const init: ServerInit = async () => {
 	await prepareDatabase(client, db);
 	if (demoEnabled()) await seedDemo(db);
+	await emptyExpiredTrash(db);
 };
 
 export const handle: Handle = async ({ event, resolve }) => {

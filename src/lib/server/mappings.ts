@@ -1,7 +1,7 @@
 // Mappings in the database: a row per mapping and a row per version of its document. Only the
 // owner changes or deletes a mapping; public mappings can be read (and rehearsed) by everyone.
 import { DEMO_MAPPINGS, lintMapping, parseMapping, type Mapping } from '$lib/engine';
-import { and, desc, eq, or } from 'drizzle-orm';
+import { and, desc, eq, isNull, or } from 'drizzle-orm';
 import { randomUUID } from 'node:crypto';
 import type { Database } from './db';
 import { mapping, mappingVersion, user } from './db/schema';
@@ -57,7 +57,7 @@ export async function listMappings(db: Database, userId: string): Promise<Mappin
 			mappingVersion,
 			and(eq(mappingVersion.mappingId, mapping.id), eq(mappingVersion.version, mapping.currentVersion))
 		)
-		.where(or(eq(mapping.ownerId, userId), eq(mapping.visibility, 'public')))
+		.where(and(isNull(mapping.deletedAt), or(eq(mapping.ownerId, userId), eq(mapping.visibility, 'public'))))
 		.orderBy(desc(mapping.updatedAt));
 	return rows.map((r) => summarize(r.m, r.owner, userId, r.document as Mapping));
 }
@@ -68,7 +68,7 @@ export async function getMapping(db: Database, userId: string, id: string, versi
 		.from(mapping)
 		.innerJoin(user, eq(user.id, mapping.ownerId))
 		.where(eq(mapping.id, id));
-	if (!row || (row.m.ownerId !== userId && row.m.visibility !== 'public')) {
+	if (!row || row.m.deletedAt || (row.m.ownerId !== userId && row.m.visibility !== 'public')) {
 		throw new Refusal(404, 'That mapping does not exist, or it is private to someone else.');
 	}
 	const versions = await db
@@ -123,7 +123,7 @@ export async function createMapping(
 
 async function owned(db: Database, userId: string, id: string) {
 	const [row] = await db.select().from(mapping).where(eq(mapping.id, id));
-	if (!row || (row.ownerId !== userId && row.visibility !== 'public'))
+	if (!row || row.deletedAt || (row.ownerId !== userId && row.visibility !== 'public'))
 		throw new Refusal(404, 'That mapping does not exist, or it is private to someone else.');
 	if (row.ownerId !== userId)
 		throw new Refusal(403, 'Only the owner can change this mapping. Fork it to make your own copy.');
@@ -147,9 +147,15 @@ export async function setVisibility(db: Database, userId: string, id: string, vi
 	await db.update(mapping).set({ visibility }).where(eq(mapping.id, id));
 }
 
+/**
+ * Moves a mapping to its owner's trash. Its versions stay, so every session recorded with it (by
+ * anyone, when it was public) keeps replaying with its findings. Demo mappings belong to everyone.
+ */
 export async function deleteMapping(db: Database, userId: string, id: string) {
-	await owned(db, userId, id);
-	await db.delete(mapping).where(eq(mapping.id, id));
+	const row = await owned(db, userId, id);
+	if (row.demoSlug)
+		throw new Refusal(403, 'Demo mappings are shared with everyone and cannot be deleted. Fork one to change it.');
+	await db.update(mapping).set({ deletedAt: new Date() }).where(eq(mapping.id, id));
 }
 
 /** The demo mappings, owned by the school's teacher and public; created once. */

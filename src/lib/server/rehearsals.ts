@@ -1,16 +1,10 @@
 // Recorded sessions. Events arrive in numbered chunks while a rehearsal runs; a chunk's number is
 // its identity, so a resent chunk (after a lost answer, a reload or an offline queue) is stored
 // once. The session document is the chunks in number order.
-import {
-	analyze,
-	parseSession,
-	sessionEvents,
-	sessionSchema,
-	type Mapping,
-	type SessionDocument,
-	type SessionEvent
-} from '$lib/engine';
-import { and, asc, desc, eq, sql } from 'drizzle-orm';
+import { documentKind } from '$lib/documents';
+import { buildReplay } from '$lib/replay/model';
+import { parseSession, sessionSchema, type Mapping, type SessionDocument, type SessionEvent } from '$lib/engine';
+import { and, asc, desc, eq, isNull, sql } from 'drizzle-orm';
 import { randomUUID } from 'node:crypto';
 import { z } from 'zod';
 import { serialWrite, type Database } from './db';
@@ -38,6 +32,7 @@ async function mine(db: Database, userId: string, id: string): Promise<Rehearsal
 	const [row] = await db.select().from(rehearsal).where(eq(rehearsal.id, id));
 	if (!row || row.ownerId !== userId)
 		throw new Refusal(404, 'That session does not exist, or it belongs to someone else.');
+	if (row.deletedAt) throw new Refusal(404, 'That session is in the trash. Restore it from the trash to open it.');
 	return row;
 }
 
@@ -114,13 +109,18 @@ async function pinnedMapping(db: Database, row: RehearsalRow): Promise<Mapping |
 /** Ends the recording: names it, counts its findings against the mapping version it was played with. */
 export async function finishRehearsal(db: Database, userId: string, id: string, name?: string) {
 	const { row, session } = await sessionDocument(db, userId, id);
-	const doc = await pinnedMapping(db, row);
-	const findings = doc ? analyze(doc, sessionEvents(session).events, { tempo: session.tempo }) : [];
+	// The same model the replay page builds, so the list, the header and the transport show one length.
+	const model = buildReplay(await pinnedMapping(db, row), session);
 	await db
 		.update(rehearsal)
-		.set({ status: 'saved', name: name?.trim() || row.name, findingCount: findings.length })
+		.set({
+			status: 'saved',
+			name: name?.trim() || row.name,
+			findingCount: model.findings.length,
+			durationMs: model.length
+		})
 		.where(eq(rehearsal.id, id));
-	return { findings: findings.length };
+	return { findings: model.findings.length };
 }
 
 export async function renameRehearsal(db: Database, userId: string, id: string, name: string) {
@@ -137,6 +137,7 @@ export async function listRehearsals(db: Database, userId: string, filter = '') 
 		.where(
 			and(
 				eq(rehearsal.ownerId, userId),
+				isNull(rehearsal.deletedAt),
 				q
 					? sql`(${rehearsal.name} like ${pattern} escape '\\' or ${rehearsal.mappingName} like ${pattern} escape '\\')`
 					: undefined
@@ -150,14 +151,21 @@ export async function getRehearsal(db: Database, userId: string, id: string) {
 	return { row, session, mapping: await pinnedMapping(db, row) };
 }
 
+/** Moves a session to the trash; its events and audio stay until the trash is purged. */
 export async function deleteRehearsal(db: Database, userId: string, id: string) {
 	const row = await mine(db, userId, id);
-	await db.delete(rehearsal).where(eq(rehearsal.id, id));
+	await db.update(rehearsal).set({ deletedAt: new Date() }).where(eq(rehearsal.id, id));
 	return row;
 }
 
 /** Saves an imported session document (already parsed) as a finished session of a mapping. */
 export async function importSession(db: Database, userId: string, mappingId: string, input: unknown, name?: string) {
+	const kind = documentKind(input);
+	if (kind === 'mapping' || kind === 'drill')
+		throw new Refusal(
+			400,
+			`This is a ${kind} file, not a session.${kind === 'mapping' ? ' Import it on the Mappings page.' : ''}`
+		);
 	const parsed = parseSession(input);
 	if (!parsed.ok) {
 		const first = parsed.problems[0];

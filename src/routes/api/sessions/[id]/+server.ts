@@ -1,7 +1,6 @@
 import { db } from '$lib/server/db';
 import { readJson, refusalResponse, signedIn } from '$lib/server/http';
 import { deleteRehearsal, finishRehearsal, renameRehearsal, sessionDocument } from '$lib/server/rehearsals';
-import { removeUpload } from '$lib/server/storage';
 import { json } from '@sveltejs/kit';
 import { z } from 'zod';
 import type { RequestHandler } from './$types';
@@ -37,8 +36,7 @@ export const PATCH: RequestHandler = async ({ locals, params, request }) => {
 
 export const DELETE: RequestHandler = async ({ locals, params }) => {
 	try {
-		const row = await deleteRehearsal(db, signedIn(locals).id, params.id);
-		await removeUpload(row.audioFile);
+		await deleteRehearsal(db, signedIn(locals).id, params.id);
 		return new Response(null, { status: 204 });
 	} catch (e) {
 		return refusalResponse(e);

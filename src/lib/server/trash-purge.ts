@@ -1,0 +1,10 @@
+import type { Database } from './db';
+import { removeUpload } from './storage';
+import { purgeTrash } from './trash';
+
+/** Purges the trash and removes the audio files of the sessions it purged. */
+export async function emptyExpiredTrash(db: Database, now = new Date()) {
+	const purged = await purgeTrash(db, now);
+	await Promise.all(purged.audioFiles.map((file) => removeUpload(file)));
+	return purged;
+}
