@@ -196,6 +196,11 @@ export class RehearsalRoom {
 		if (result) this.saved = result;
 	}
 
+	/** Throws away a take that recorded nothing (the recorder refuses one with events). */
+	discardRecording(): Promise<void> {
+		return this.recorder.discard();
+	}
+
 	/** Lets go of every pad and puts the rig back to its start; not while recording. */
 	reset(): void {
 		if (this.recording || !this.#actor) return;

@@ -151,10 +151,14 @@ export async function getRehearsal(db: Database, userId: string, id: string) {
 	return { row, session, mapping: await pinnedMapping(db, row) };
 }
 
-/** Moves a session to the trash; its events and audio stay until the trash is purged. */
+/**
+ * Moves a session to the trash; its events and audio stay until the trash is purged. A session
+ * with no events and no audio (an empty take thrown away) is removed at once: nothing to restore.
+ */
 export async function deleteRehearsal(db: Database, userId: string, id: string) {
 	const row = await mine(db, userId, id);
-	await db.update(rehearsal).set({ deletedAt: new Date() }).where(eq(rehearsal.id, id));
+	if (row.eventCount === 0 && !row.audioFile) await db.delete(rehearsal).where(eq(rehearsal.id, id));
+	else await db.update(rehearsal).set({ deletedAt: new Date() }).where(eq(rehearsal.id, id));
 	return row;
 }
 
