@@ -38,6 +38,7 @@ export type RoomRecorder = Pick<
 	| 'start'
 	| 'record'
 	| 'stop'
+	| 'discard'
 	| 'resume'
 	| 'attachAudio'
 	| 'dispose'
