@@ -157,7 +157,19 @@ export const GLOSSARY: GlossaryEntry[] = entries.map(([group, term, line]) => ({
 
 const byId = new Map(GLOSSARY.map((e) => [e.id, e]));
 
-/** The entry for an anchor id (`hold-group`) or a term as written (`Hold group`). */
+/** Other names the code uses for a glossary term (finding kinds, the builder's `legatoRow`). */
+const ALIASES: Record<string, string> = {
+	stuck: 'stuck-on',
+	leak: 'bleed',
+	drift: 'count-left-over',
+	clamp: 'count-overflow',
+	'legato-row': 'hold-group',
+	legato: 'hold-group',
+	group: 'hold-group'
+};
+
+/** The entry for an anchor id (`hold-group`), a term as written (`Hold group`) or a code name (`leak`). */
 export function glossaryEntry(idOrTerm: string): GlossaryEntry | undefined {
-	return byId.get(idOrTerm) ?? byId.get(slug(idOrTerm));
+	const id = slug(idOrTerm);
+	return byId.get(idOrTerm) ?? byId.get(id) ?? byId.get(ALIASES[id] ?? '');
 }
