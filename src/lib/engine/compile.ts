@@ -2,19 +2,18 @@
 // precomputed, steps grouped by input in binding order. Cached per mapping object (a WeakMap), so
 // the hot path never walks the document again. Mappings are treated as immutable once applied:
 // an editor that changes one makes a new object.
-import type { Action, DeckId, Guard, Mapping, Phase, Quantize, StepValue } from './types';
+import type { Action, DeckId, Guard, Mapping, Phase, Quantize, StepValue, Target } from './types';
 
 export const T = {
 	rackOn: 0,
-	rackMode: 1,
-	rackMix: 2,
-	rackRoute: 3,
-	slotEffect: 4,
-	slotOn: 5,
-	slotAmount: 6,
-	focusParam: 7,
-	deckPlay: 8,
-	counter: 9
+	rackMix: 1,
+	rackRoute: 2,
+	chain: 3,
+	effect: 4,
+	effectOn: 5,
+	effectParam: 6,
+	deckPlay: 7,
+	counter: 8
 } as const;
 
 export interface CompiledStep {
@@ -25,8 +24,8 @@ export interface CompiledStep {
 	followsKnob: boolean;
 	guards: Guard[];
 	rack: number; // 0-based, -1 when the target has no rack
-	slot: number;
-	param: number;
+	position: number; // 0-based
+	param: number; // 0-based
 	deck: DeckId | null;
 	counter: string | null;
 	max: number; // the counter's max
@@ -39,6 +38,8 @@ export interface CompiledMapping {
 	stepsByInput: Map<string, CompiledStep[]>;
 	/** The first quantize other than `off` among an input's bindings. */
 	quantizeByInput: Map<string, Exclude<Quantize, 'off'>>;
+	/** Inputs whose quantized binding lets the release act at once. */
+	releaseAtOnce: Set<string>;
 }
 
 const cache = new WeakMap<Mapping, CompiledMapping>();
@@ -56,14 +57,18 @@ function build(mapping: Mapping): CompiledMapping {
 	const max = new Map(mapping.counters.map((c) => [c.id, c.max]));
 	const stepsByInput = new Map<string, CompiledStep[]>();
 	const quantizeByInput = new Map<string, Exclude<Quantize, 'off'>>();
+	const releaseAtOnce = new Set<string>();
 	mapping.bindings.forEach((b, bi) => {
-		if (b.quantize && b.quantize !== 'off' && !quantizeByInput.has(b.input)) quantizeByInput.set(b.input, b.quantize);
+		if (b.quantize && b.quantize !== 'off' && !quantizeByInput.has(b.input)) {
+			quantizeByInput.set(b.input, b.quantize);
+			if (b.releaseAtOnce) releaseAtOnce.add(b.input);
+		}
 		const list = stepsByInput.get(b.input) ?? [];
 		stepsByInput.set(b.input, list);
 		b.steps.forEach((s, si) => {
 			const t = s.target;
 			const rack = 'rack' in t ? t.rack - 1 : -1;
-			const slot = 'slot' in t ? t.slot - 1 : 0;
+			const position = 'position' in t ? t.position - 1 : 0;
 			const param = 'param' in t ? t.param - 1 : 0;
 			const base = {
 				action: s.action,
@@ -72,7 +77,7 @@ function build(mapping: Mapping): CompiledMapping {
 				followsKnob: s.action === 'set' && s.value === undefined,
 				guards: s.guards ?? [],
 				rack,
-				slot,
+				position,
 				param,
 				deck: 'deck' in t ? t.deck : null,
 				counter: t.kind === 'counter' ? t.counter : null,
@@ -80,36 +85,29 @@ function build(mapping: Mapping): CompiledMapping {
 				binding: bi,
 				index: si
 			};
-			const [kind, path] = describe(t, rack, slot, param);
+			const [kind, path] = describe(t, rack, position, param);
 			list.push({ ...base, kind, path });
 		});
 	});
-	return { stepsByInput, quantizeByInput };
+	return { stepsByInput, quantizeByInput, releaseAtOnce };
 }
 
-function describe(
-	t: Mapping['bindings'][0]['steps'][0]['target'],
-	r: number,
-	s: number,
-	p: number
-): [CompiledStep['kind'], string] {
+function describe(t: Target, r: number, p: number, k: number): [CompiledStep['kind'], string] {
 	switch (t.kind) {
 		case 'rack-on':
 			return [T.rackOn, `racks.${r}.on`];
-		case 'rack-mode':
-			return [T.rackMode, `racks.${r}.mode`];
 		case 'rack-mix':
 			return [T.rackMix, `racks.${r}.mix`];
 		case 'rack-route':
 			return [T.rackRoute, `racks.${r}.routes.${t.deck}`];
-		case 'slot-effect':
-			return [T.slotEffect, `racks.${r}.slots.${s}.effect`];
-		case 'slot-on':
-			return [T.slotOn, `racks.${r}.slots.${s}.on`];
-		case 'slot-amount':
-			return [T.slotAmount, `racks.${r}.slots.${s}.amount`];
-		case 'focus-param':
-			return [T.focusParam, `racks.${r}.params.${p}`];
+		case 'chain':
+			return [T.chain, `racks.${r}.chain`];
+		case 'effect':
+			return [T.effect, `racks.${r}.chain.${p}.effect`];
+		case 'effect-on':
+			return [T.effectOn, `racks.${r}.chain.${p}.on`];
+		case 'effect-param':
+			return [T.effectParam, `racks.${r}.chain.${p}.params.${k}`];
 		case 'deck-play':
 			return [T.deckPlay, `decks.${t.deck}.playing`];
 		case 'counter':

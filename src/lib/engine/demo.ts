@@ -4,7 +4,7 @@
 // light answers on its own note (velocity 127 lit, 0 dark).
 //   two-deck:  bottom row one-press echo/reverb/filter/gate for deck A, next row the same for
 //              deck B, third row bitcrush/flanger for A and B (all on rack 1, each pad routing it
-//              to its deck and away from the other); top row a legato stutter row on deck A
+//              to its deck and away from the other); top row a hold-group stutter row on deck A
 //              (rack 2, 1/4 1/8 1/16 1/32) with the `held` counter.
 //   four-deck: rows of echo, reverb and filter pads for decks A–D on rack 1 (each routing away
 //              from the three other decks), the same stutter row on top.
@@ -32,7 +32,7 @@ export function padGridProfile(name = 'Sixteen-pad grid'): ControllerProfile {
 	return { name, rows: 4, cols: 4, inputs };
 }
 
-/** How each demo effect sounds when a pad plays it: focus parameters 1–3 and dry/wet. */
+/** How each demo effect sounds when a pad plays it: parameters 1–3 and dry/wet. */
 const SOUND: Record<string, { params: number[]; mix: number; label: string }> = {
 	echo: { params: [paramForDivision('echo', 1, '1/8'), 0.45, 0.6], mix: 0.5, label: 'Echo' },
 	reverb: { params: [0.7, 0.6, 0.4], mix: 0.45, label: 'Reverb' },
@@ -51,11 +51,15 @@ function effectPad(pad: number, effect: EffectId, deck: DeckId, decks: 2 | 4): B
 		effect,
 		params: s.params,
 		mix: s.mix,
-		mode: 'focus',
 		deck,
 		decks
 	});
 }
+
+const DEMO_RACKS = [
+	{ id: 'pads', label: 'One-press pads' },
+	{ id: 'stutter', label: 'Stutter row' }
+];
 
 const STUTTER = ['1/4', '1/8', '1/16', '1/32'];
 const STUTTER_PADS = [13, 14, 15, 16].map(padId);
@@ -89,11 +93,12 @@ function twoDeck(): Mapping {
 		...row.bindings
 	);
 	return {
-		version: 1,
+		version: 2,
 		name: 'Two-deck pad set',
 		decks: 2,
 		tempo: 124,
 		profile: padGridProfile(),
+		racks: DEMO_RACKS,
 		counters: [row.counter],
 		bindings
 	};
@@ -107,11 +112,12 @@ function fourDeck(): Mapping {
 	);
 	bindings.push(...row.bindings);
 	return {
-		version: 1,
+		version: 2,
 		name: 'Four-deck pad set',
 		decks: 4,
 		tempo: 124,
 		profile: padGridProfile(),
+		racks: DEMO_RACKS,
 		counters: [row.counter],
 		bindings
 	};
@@ -127,7 +133,6 @@ function brokenRow(): Mapping {
 			effect: 'stutter',
 			params: [paramForDivision('stutter', 1, STUTTER[i])],
 			mix: 1,
-			mode: 'focus',
 			deck: 'A',
 			decks: 2,
 			group: 'stutter-row'
@@ -153,13 +158,13 @@ export const DEMO_MAPPINGS: readonly DemoMapping[] = [
 		slug: 'two-deck',
 		title: 'Two-deck pad set',
 		summary:
-			'One-press echo, reverb, filter, gate, crush and flanger pads for decks A and B, and a legato stutter row.',
+			'One-press echo, reverb, filter, gate, crush and flanger pads for decks A and B, and a hold-group stutter row.',
 		mapping: twoDeck()
 	},
 	{
 		slug: 'four-deck',
 		title: 'Four-deck pad set',
-		summary: 'One-press echo, reverb and filter pads for each of four decks, and a legato stutter row.',
+		summary: 'One-press echo, reverb and filter pads for each of four decks, and a hold-group stutter row.',
 		mapping: fourDeck()
 	},
 	{

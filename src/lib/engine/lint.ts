@@ -1,8 +1,9 @@
 // Static checks a person can act on, before anything is played. Each finding points at a binding
 // (and a step where one is to blame) and explains in plain words what will go wrong on stage.
 // Rules: clash (two bindings on one MIDI address), partial-route (routes a rack to one deck but
-// not away from every other deck), unset-mode (switches a rack on without setting the mode it
-// relies on), legato-without-counter (a group sharing momentary on/off with no held-pad counter),
+// not away from every other deck), no-chain-load (a one-press pad that switches a rack on without
+// loading its chain, so it inherits what the last pad left), counter-too-small (a counter whose max
+// is below the number of pads that count it), legato-without-counter (a group sharing momentary on/off with no held-pad counter),
 // unbalanced-count (count-up without a count-down on release), idle-guard (a guard on a counter
 // nothing changes), dead-step (a step that can never run).
 import { inputName, rulesFor } from './watch';
@@ -11,7 +12,8 @@ import { DECK_IDS, type Binding, type Guard, type Mapping, type Step } from './t
 export const LINT_RULES = [
 	'clash',
 	'partial-route',
-	'unset-mode',
+	'no-chain-load',
+	'counter-too-small',
 	'legato-without-counter',
 	'unbalanced-count',
 	'idle-guard',
@@ -38,11 +40,12 @@ export function lintMapping(m: Mapping): LintFinding[] {
 	clashes(m, push, name);
 	m.bindings.forEach((b, bi) => {
 		routes(m, b, bi, push, name);
-		modes(m, b, bi, push, name);
+		chainLoads(m, b, bi, push, name);
 		counts(m, b, bi, push, name);
 		deadSteps(m, b, bi, push, name);
 	});
 	legatoGroups(m, push);
+	counterRoom(m, push);
 	return out;
 }
 
@@ -90,30 +93,44 @@ function routes(m: Mapping, b: Binding, bi: number, push: Push, name: Name) {
 	});
 }
 
-function modes(m: Mapping, b: Binding, bi: number, push: Push, name: Name) {
+function chainLoads(m: Mapping, b: Binding, bi: number, push: Push, name: Name) {
 	b.steps.forEach((s, si) => {
 		if (s.target.kind !== 'rack-on' || !isOn(s)) return;
 		const rack = s.target.rack;
 		const onRack = b.steps.filter((o) => 'rack' in o.target && o.target.rack === rack);
-		if (onRack.some((o) => o.target.kind === 'rack-mode')) return;
-		const needsFocus = onRack.some((o) => o.target.kind === 'focus-param');
-		const needsChain = onRack.some((o) => 'slot' in o.target && o.target.slot > 1);
-		const setter = m.bindings.find((o) => o.steps.some((x) => x.target.kind === 'rack-mode' && x.target.rack === rack));
-		if (needsFocus || needsChain)
-			push(
-				'unset-mode',
-				bi,
-				si,
-				`${name(b)} switches rack ${rack} on and relies on ${needsFocus ? 'focus' : 'chain'} mode without setting it: whatever mode the last pad left decides how it sounds`
-			);
-		else if (setter)
-			push(
-				'unset-mode',
-				bi,
-				si,
-				`${name(b)} switches rack ${rack} on without setting its mode, while ${name(setter)} changes that mode: this pad sounds different depending on which pad came before`
-			);
+		if (onRack.some((o) => o.target.kind === 'chain')) return;
+		const setsUp = onRack.some((o) => o.target.kind !== 'rack-on');
+		if (!b.intent && !setsUp) return;
+		push(
+			'no-chain-load',
+			bi,
+			si,
+			`${name(b)} switches rack ${rack} on without loading its chain: it plays whatever effects the last pad left in rack ${rack}`
+		);
 	});
+}
+
+/** A hold group's counter must count every finger of the group, or a full chord clamps. */
+function counterRoom(m: Mapping, push: Push) {
+	const pads = new Map<string, { inputs: Set<string>; first: number }>();
+	m.bindings.forEach((b, bi) => {
+		for (const s of b.steps)
+			if (s.target.kind === 'counter' && s.action === 'count-up') {
+				const entry = pads.get(s.target.counter) ?? { inputs: new Set<string>(), first: bi };
+				entry.inputs.add(b.input);
+				pads.set(s.target.counter, entry);
+			}
+	});
+	for (const [id, { inputs, first }] of pads) {
+		const counter = m.counters.find((c) => c.id === id);
+		if (!counter || counter.max >= inputs.size) continue;
+		push(
+			'counter-too-small',
+			first,
+			null,
+			`counter ${id} goes up to ${counter.max}, but ${inputs.size} pads count it: holding them all at once overflows it`
+		);
+	}
 }
 
 function counts(m: Mapping, b: Binding, bi: number, push: Push, name: Name) {

@@ -1,8 +1,9 @@
-// The mapping document, version 1 (our own format). `parseMapping` is the only way an outside
+// The mapping document, version 2 (our own format). `parseMapping` is the only way an outside
 // mapping enters the engine: it returns the typed Mapping or every problem at once, each with a
 // readable path (`bindings[2].steps[0].target.rack`) and a sentence a performer can act on.
-// Cross-field rules (inputs exist, counters exist, decks within the deck count, the action fits
-// the target, the value fits the target) live here so the engine can trust what it is given.
+// Cross-field rules (inputs exist, counters exist, racks declared, decks within the deck count,
+// the action fits the target, the value fits the target) live here so the engine can trust what
+// it is given. A version 1 document is validated by its own schema and upgraded (upgrade.ts).
 import { z } from 'zod';
 import {
 	ACTIONS,
@@ -10,14 +11,15 @@ import {
 	EFFECT_IDS,
 	INPUT_KINDS,
 	INTENTS,
+	CHAIN_MAX,
+	MAX_RACKS,
 	PARAM_COUNT,
 	PHASES,
 	QUANTIZE,
-	RACK_COUNT,
-	SLOT_COUNT,
 	type Mapping,
 	type Step
 } from './types';
+import { mappingV1Schema, upgradeMapping, type MappingV1 } from './upgrade';
 
 export interface Problem {
 	path: string;
@@ -29,18 +31,17 @@ export type MappingResult = { ok: true; mapping: Mapping } | { ok: false; proble
 const whole = (min: number, max: number) => z.number().int().min(min).max(max);
 const id = z.string().trim().min(1).max(64);
 const deckId = z.enum(DECK_IDS);
-const rack = whole(1, RACK_COUNT);
-const slot = whole(1, SLOT_COUNT);
+const rack = whole(1, MAX_RACKS);
+const position = whole(1, CHAIN_MAX);
 
 export const targetSchema = z.discriminatedUnion('kind', [
 	z.object({ kind: z.literal('rack-on'), rack }),
-	z.object({ kind: z.literal('rack-mode'), rack }),
 	z.object({ kind: z.literal('rack-mix'), rack }),
 	z.object({ kind: z.literal('rack-route'), rack, deck: deckId }),
-	z.object({ kind: z.literal('slot-effect'), rack, slot }),
-	z.object({ kind: z.literal('slot-on'), rack, slot }),
-	z.object({ kind: z.literal('slot-amount'), rack, slot }),
-	z.object({ kind: z.literal('focus-param'), rack, param: whole(1, PARAM_COUNT) }),
+	z.object({ kind: z.literal('chain'), rack }),
+	z.object({ kind: z.literal('effect'), rack, position }),
+	z.object({ kind: z.literal('effect-on'), rack, position }),
+	z.object({ kind: z.literal('effect-param'), rack, position, param: whole(1, PARAM_COUNT) }),
 	z.object({ kind: z.literal('deck-play'), deck: deckId }),
 	z.object({ kind: z.literal('counter'), counter: id })
 ]);
@@ -55,7 +56,7 @@ export const stepSchema = z.object({
 	target: targetSchema,
 	action: z.enum(ACTIONS),
 	// Any number, word or null here; whether it fits the target is checked with the target in view.
-	value: z.union([z.number(), z.string().max(32), z.null()]).optional(),
+	value: z.union([z.number(), z.string().max(32), z.array(z.string().max(32)).max(8), z.null()]).optional(),
 	phase: z.enum(PHASES).optional(),
 	guards: z.array(guardSchema).max(4).optional()
 });
@@ -86,21 +87,28 @@ const bindingSchema = z.object({
 	deck: deckId.optional(),
 	group: id.optional(),
 	quantize: z.enum(QUANTIZE).optional(),
+	releaseAtOnce: z.boolean().optional(),
+	takeover: z.boolean().optional(),
 	steps: z.array(stepSchema).max(64)
+});
+
+const rackDeclSchema = z.object({ id, label: z.string().trim().min(1).max(64) });
+
+export const profileSchema = z.object({
+	name: z.string().trim().min(1).max(120),
+	rows: whole(1, 64).optional(),
+	cols: whole(1, 64).optional(),
+	inputs: z.array(inputSchema).max(512)
 });
 
 export const mappingSchema = z
 	.object({
-		version: z.literal(1),
+		version: z.literal(2),
 		name: z.string().trim().min(1).max(120),
 		decks: z.literal([2, 4]),
 		tempo: z.number().min(40).max(300).optional(),
-		profile: z.object({
-			name: z.string().trim().min(1).max(120),
-			rows: whole(1, 64).optional(),
-			cols: whole(1, 64).optional(),
-			inputs: z.array(inputSchema).max(512)
-		}),
+		profile: profileSchema,
+		racks: z.array(rackDeclSchema).min(1).max(MAX_RACKS),
 		counters: z.array(counterSchema).max(64).default([]),
 		bindings: z.array(bindingSchema).max(512)
 	})
@@ -117,6 +125,15 @@ function crossCheck(m: Raw): { path: Path; message: string }[] {
 	const decks = DECK_IDS.slice(0, m.decks) as readonly string[];
 	const deckOk = (d: string, path: Path) => {
 		if (!decks.includes(d)) out.push({ path, message: `deck ${d} doesn't exist in a ${m.decks}-deck mapping` });
+	};
+	const rackIds = new Set<string>();
+	m.racks.forEach((r, i) => {
+		if (rackIds.has(r.id)) out.push({ path: ['racks', i, 'id'], message: `another rack is already called "${r.id}"` });
+		rackIds.add(r.id);
+	});
+	const rackOk = (r: number, path: Path) => {
+		if (r > m.racks.length)
+			out.push({ path, message: `rack ${r} isn't declared: this mapping has ${m.racks.length} rack(s)` });
 	};
 	const seen = new Set<string>();
 	m.profile.inputs.forEach((input, i) => {
@@ -148,6 +165,7 @@ function crossCheck(m: Raw): { path: Path; message: string }[] {
 		b.steps.forEach((s, si) => {
 			const sp: Path = [...at, 'steps', si];
 			if ('deck' in s.target) deckOk(s.target.deck, [...sp, 'target', 'deck']);
+			if ('rack' in s.target) rackOk(s.target.rack, [...sp, 'target', 'rack']);
 			if (s.target.kind === 'counter') counterOk(s.target.counter, [...sp, 'target', 'counter']);
 			s.guards?.forEach((g, gi) => counterOk(g.counter, [...sp, 'guards', gi, 'counter']));
 			const problem = stepProblem(s, counters);
@@ -157,8 +175,9 @@ function crossCheck(m: Raw): { path: Path; message: string }[] {
 	return out;
 }
 
-const SWITCHES = new Set(['rack-on', 'rack-route', 'slot-on', 'deck-play']);
-const LEVELS = new Set(['rack-mix', 'slot-amount', 'focus-param']);
+const SWITCHES = new Set(['rack-on', 'rack-route', 'effect-on', 'deck-play']);
+const LEVELS = new Set(['rack-mix', 'effect-param']);
+const isEffect = (v: unknown) => (EFFECT_IDS as readonly unknown[]).includes(v);
 
 /** Whether the action fits the target and the value fits both; null when it does. */
 function stepProblem(
@@ -178,9 +197,13 @@ function stepProblem(
 		return null;
 	}
 	if (v === undefined) return knobOk(kind) ? null : 'a set step needs a value';
-	if (kind === 'rack-mode') return v === 'chain' || v === 'focus' ? null : 'rack mode must be "chain" or "focus"';
-	if (kind === 'slot-effect')
-		return v === null || (EFFECT_IDS as readonly unknown[]).includes(v) ? null : `"${String(v)}" is not an effect`;
+	if (kind === 'chain') {
+		if (!Array.isArray(v) || v.length < 1 || v.length > CHAIN_MAX)
+			return `a chain step loads a list of 1 to ${CHAIN_MAX} effects`;
+		const bad = v.find((e) => !isEffect(e));
+		return bad === undefined ? null : `"${String(bad)}" is not an effect`;
+	}
+	if (kind === 'effect') return v === null || isEffect(v) ? null : `"${String(v)}" is not an effect`;
 	if (typeof v !== 'number') return `${kind} takes a number`;
 	if (SWITCHES.has(kind)) return v === 0 || v === 1 ? null : `${kind} takes 0 (off) or 1 (on)`;
 	if (LEVELS.has(kind)) return v >= 0 && v <= 1 ? null : `${kind} takes a value from 0 to 1`;
@@ -234,7 +257,13 @@ export function toProblems(error: z.ZodError): Problem[] {
 	return error.issues.map((issue) => ({ path: pathText(issue.path), message: friendly(issue) }));
 }
 
+/** Reads a version 2 document, or a version 1 document upgraded to version 2. */
 export function parseMapping(input: unknown): MappingResult {
+	if (input && typeof input === 'object' && (input as { version?: unknown }).version === 1) {
+		const old = mappingV1Schema.safeParse(input);
+		if (!old.success) return { ok: false, problems: toProblems(old.error) };
+		return parseMapping(upgradeMapping(old.data as unknown as MappingV1));
+	}
 	const r = mappingSchema.safeParse(input);
 	if (!r.success) return { ok: false, problems: toProblems(r.error) };
 	// The cross-field check has confirmed every step value fits its target, which is what narrows

@@ -13,48 +13,63 @@
 // knob's position (scaled to the counter's max for counters); release of an input not held still
 // runs its release steps, as a device would.
 import { compileMapping, type CompiledStep, T } from './compile';
+import { EFFECTS } from './effects';
 import {
+	CHAIN_MAX,
 	DECK_IDS,
 	PARAM_COUNT,
-	RACK_COUNT,
-	SLOT_COUNT,
 	type Clamp,
 	type DeckId,
+	type EffectId,
 	type InputEvent,
 	type Mapping,
+	type PositionState,
 	type RackState,
 	type RigChange,
 	type RigState,
 	type StepResult
 } from './types';
 
+const EMPTY_PARAMS: readonly number[] = Array.from({ length: PARAM_COUNT }, () => 0.5);
+
+export function emptyPosition(): PositionState {
+	return { effect: null, on: false, params: EMPTY_PARAMS.slice() };
+}
+
+/** A position as a `chain` step loads it: the effect on, its parameters at the catalog defaults. */
+export function loadedPosition(effect: EffectId): PositionState {
+	return { effect, on: true, params: EFFECTS[effect].params.map((p) => p.default) };
+}
+
 export function initialRack(): RackState {
 	return {
 		on: false,
 		mix: 0.5,
-		mode: 'chain',
-		slots: Array.from({ length: SLOT_COUNT }, () => ({ effect: null, on: false, amount: 0.5 })),
-		params: Array.from({ length: PARAM_COUNT }, () => 0.5),
-		routes: { A: false, B: false, C: false, D: false }
+		routes: { A: false, B: false, C: false, D: false },
+		chain: Array.from({ length: CHAIN_MAX }, emptyPosition)
 	};
 }
 
-/** Racks off and unrouted, the mapping's decks playing, counters at their rest values. */
+/** Racks off, unrouted and empty, the mapping's decks playing, counters at their rest values. */
 export function initialRigState(mapping: Mapping): RigState {
 	const counters: Record<string, number> = {};
 	for (const c of mapping.counters) counters[c.id] = c.rest;
 	const decks = {} as RigState['decks'];
 	DECK_IDS.forEach((d, i) => (decks[d] = { playing: i < mapping.decks }));
-	return { racks: Array.from({ length: RACK_COUNT }, initialRack), decks, counters, held: [] };
+	return { racks: mapping.racks.map(initialRack), decks, counters, held: [] };
 }
 
-/** DESIGN.md §4.4. `rack` is 1-based, as people count racks. */
+/** Whether a rack's chain makes any sound of its own: at least one position on with an effect. */
+export function chainSounds(r: RackState): boolean {
+	for (const p of r.chain) if (p.on && p.effect !== null) return true;
+	return false;
+}
+
+/** DESIGN.md §4.4, the one audible rule. `rack` is 1-based, as people count racks. */
 export function isAudible(state: RigState, rack: number, deck: DeckId): boolean {
 	const r = state.racks[rack - 1];
 	if (!r || !r.on || !r.routes[deck] || !state.decks[deck].playing || !(r.mix > 0)) return false;
-	if (r.mode === 'focus') return r.slots[0].effect !== null && r.slots[0].on;
-	for (const s of r.slots) if (s.on && s.effect !== null) return true;
-	return false;
+	return chainSounds(r);
 }
 
 const NO_CLAMPS: Clamp[] = [];
@@ -63,7 +78,7 @@ const NO_CLAMPS: Clamp[] = [];
 class Draft {
 	racks: RackState[] | null = null;
 	rackCopied = 0; // bit per rack already copied in this event
-	slotsCopied = 0;
+	chainCopied = 0;
 	decks: RigState['decks'] | null = null;
 	counters: Record<string, number> | null = null;
 	changes: RigChange[] = [];
@@ -88,13 +103,13 @@ class Draft {
 		return copy;
 	}
 
-	slots(i: number): RackState['slots'] {
+	chain(i: number): RackState['chain'] {
 		const r = this.rack(i);
-		if (!(this.slotsCopied & (1 << i))) {
-			r.slots = r.slots.slice();
-			this.slotsCopied |= 1 << i;
+		if (!(this.chainCopied & (1 << i))) {
+			r.chain = r.chain.slice();
+			this.chainCopied |= 1 << i;
 		}
-		return r.slots;
+		return r.chain;
 	}
 
 	record(path: string, from: unknown, to: unknown): void {
@@ -172,13 +187,6 @@ function runStep(d: Draft, step: CompiledStep, type: InputEvent['type'], knob: n
 			d.rack(ri).on = to;
 			return;
 		}
-		case T.rackMode: {
-			const from = d.peek(ri).mode;
-			if (from === v) return;
-			d.record(step.path, from, v);
-			d.rack(ri).mode = v as RackState['mode'];
-			return;
-		}
 		case T.rackMix: {
 			const from = d.peek(ri).mix;
 			if (from === v) return;
@@ -196,29 +204,25 @@ function runStep(d: Draft, step: CompiledStep, type: InputEvent['type'], knob: n
 			r.routes = { ...r.routes, [deck]: to };
 			return;
 		}
-		case T.slotEffect:
-		case T.slotOn:
-		case T.slotAmount: {
-			const old = d.peek(ri).slots[step.slot];
-			const next =
-				step.kind === T.slotEffect
-					? { ...old, effect: v as RackState['slots'][0]['effect'] }
-					: step.kind === T.slotOn
-						? { ...old, on: switched(old.on, flip, v) }
-						: { ...old, amount: v as number };
-			const key = step.kind === T.slotEffect ? 'effect' : step.kind === T.slotOn ? 'on' : 'amount';
-			if (old[key] === next[key]) return;
-			d.record(step.path, old[key], next[key]);
-			d.slots(ri)[step.slot] = next;
+		case T.chain:
+			return loadChain(d, ri, v as EffectId[]);
+		case T.effect:
+		case T.effectOn: {
+			const old = d.peek(ri).chain[step.position];
+			const key = step.kind === T.effect ? 'effect' : 'on';
+			const to = key === 'effect' ? (v as EffectId | null) : switched(old.on, flip, v);
+			if (old[key] === to) return;
+			d.record(step.path, old[key], to);
+			d.chain(ri)[step.position] = { ...old, [key]: to };
 			return;
 		}
-		case T.focusParam: {
-			const from = d.peek(ri).params[step.param];
-			if (from === v) return;
-			d.record(step.path, from, v);
-			const r = d.rack(ri);
-			r.params = r.params.slice();
-			r.params[step.param] = v as number;
+		case T.effectParam: {
+			const old = d.peek(ri).chain[step.position];
+			if (old.params[step.param] === v) return;
+			d.record(step.path, old.params[step.param], v);
+			const params = old.params.slice();
+			params[step.param] = v as number;
+			d.chain(ri)[step.position] = { ...old, params };
 			return;
 		}
 		case T.deckPlay: {
@@ -232,6 +236,28 @@ function runStep(d: Draft, step: CompiledStep, type: InputEvent['type'], knob: n
 		}
 		case T.counter:
 			return runCounter(d, step, v, type);
+	}
+}
+
+/** Load a whole chain: the listed effects on with default parameters, the positions after them emptied. */
+function loadChain(d: Draft, ri: number, effects: EffectId[]) {
+	const before = d.peek(ri).chain;
+	let chain: PositionState[] | null = null;
+	for (let p = 0; p < CHAIN_MAX; p++) {
+		const want = p < effects.length ? loadedPosition(effects[p]) : emptyPosition();
+		const old = before[p];
+		const base = `racks.${ri}.chain.${p}`;
+		let same = old.effect === want.effect && old.on === want.on;
+		if (old.effect !== want.effect) d.record(`${base}.effect`, old.effect, want.effect);
+		if (old.on !== want.on) d.record(`${base}.on`, old.on, want.on);
+		for (let k = 0; k < PARAM_COUNT; k++)
+			if (old.params[k] !== want.params[k]) {
+				d.record(`${base}.params.${k}`, old.params[k], want.params[k]);
+				same = false;
+			}
+		if (same) continue;
+		chain ??= d.chain(ri);
+		chain[p] = want;
 	}
 }
 
@@ -281,17 +307,21 @@ function nextHeld(held: string[], event: InputEvent): string[] {
 export function applyEvent(mapping: Mapping, state: RigState, event: InputEvent, index: number): StepResult {
 	const steps = compileMapping(mapping).stepsByInput.get(event.input);
 	const d = new Draft(state, event.t, index);
+	let setUp = 0;
 	if (steps) {
 		const snapshot = state.counters;
 		for (let k = 0; k < steps.length; k++) {
 			const step = steps[k];
 			if (step.guards.length && !guardsHold(step, snapshot)) continue;
+			// A knob turn changes values but never who set a rack up (DESIGN.md §4.6).
+			if (step.rack >= 0 && event.type !== 'turn' && stepValue(step, event.type, undefined) !== undefined)
+				setUp |= 1 << step.rack;
 			runStep(d, step, event.type, event.value);
 		}
 	}
 	const held = nextHeld(state.held, event);
 	if (held !== state.held) d.record('held', state.held, held);
-	return { state: d.finish(held), changes: d.changes, clamps: d.clamps };
+	return { state: d.finish(held), changes: d.changes, clamps: d.clamps, setUp };
 }
 
 /** Fold a list of events through `applyEvent` (no timing, no quantize): handy for tests and tools. */

@@ -4,12 +4,10 @@
 export const DECK_IDS = ['A', 'B', 'C', 'D'] as const;
 export type DeckId = (typeof DECK_IDS)[number];
 
-export const RACK_COUNT = 4;
-export const SLOT_COUNT = 3;
+/** A mapping declares 1–8 racks; each rack's chain holds 1–4 effect positions of 3 parameters. */
+export const MAX_RACKS = 8;
+export const CHAIN_MAX = 4;
 export const PARAM_COUNT = 3;
-
-export const RACK_MODES = ['chain', 'focus'] as const;
-export type RackMode = (typeof RACK_MODES)[number];
 
 export const EFFECT_IDS = [
 	'echo',
@@ -40,18 +38,19 @@ export type Quantize = (typeof QUANTIZE)[number];
 export const INPUT_KINDS = ['pad', 'knob', 'fader', 'button'] as const;
 export type InputKind = (typeof INPUT_KINDS)[number];
 
-/** What a step changes. Rack and slot numbers are 1-based, as people count them. */
+/** What a step changes. Rack, position and parameter numbers are 1-based, as people count them. */
 export type Target =
 	| { kind: 'rack-on'; rack: number }
-	| { kind: 'rack-mode'; rack: number }
 	| { kind: 'rack-mix'; rack: number }
 	| { kind: 'rack-route'; rack: number; deck: DeckId }
-	| { kind: 'slot-effect'; rack: number; slot: number }
-	| { kind: 'slot-on'; rack: number; slot: number }
-	| { kind: 'slot-amount'; rack: number; slot: number }
-	| { kind: 'focus-param'; rack: number; param: number }
+	| { kind: 'chain'; rack: number }
+	| { kind: 'effect'; rack: number; position: number }
+	| { kind: 'effect-on'; rack: number; position: number }
+	| { kind: 'effect-param'; rack: number; position: number; param: number }
 	| { kind: 'deck-play'; deck: DeckId }
 	| { kind: 'counter'; counter: string };
+
+export type TargetKind = Target['kind'];
 
 export type GuardOp = '=' | '!=' | '<' | '<=' | '>' | '>=';
 export interface Guard {
@@ -61,11 +60,12 @@ export interface Guard {
 }
 
 /**
- * `value` meaning by target: rack-mode → 'chain' | 'focus'; slot-effect → an EffectId or null
- * (empty slot); rack-mix, slot-amount, focus-param → 0..1; on/route/play targets → 0 | 1;
- * counter (`set`) → an integer.
+ * `value` meaning by target: chain → the effect ids to load, 1–4 (every position on, parameters at
+ * their defaults, positions past the list emptied); effect → an EffectId, or null to empty the
+ * position; rack-mix, effect-param → 0..1; on/route/play targets → 0 | 1; counter (`set`) → an
+ * integer.
  */
-export type StepValue = number | RackMode | EffectId | null;
+export type StepValue = number | EffectId | EffectId[] | null;
 
 export interface Step {
 	target: Target;
@@ -106,17 +106,27 @@ export interface Binding {
 	label?: string;
 	intent?: Intent;
 	deck?: DeckId; // target deck
-	group?: string; // legato group id
-	quantize?: Quantize;
+	group?: string; // hold group id
+	quantize?: Quantize; // press and release wait for the grid line (DESIGN.md §4.5)
+	releaseAtOnce?: boolean; // with quantize: the release acts at once instead of on the grid
+	takeover?: boolean; // allowed to take over a rack a latched pad holds (a kill pad): no finding
 	steps: Step[];
 }
 
+/** A rack the mapping declares; steps address it by its 1-based place in `Mapping.racks`. */
+export interface RackDecl {
+	id: string;
+	label: string;
+}
+
+/** The mapping document, version 2 (our own format). Version 1 documents are upgraded on read. */
 export interface Mapping {
-	version: 1;
+	version: 2;
 	name: string;
 	decks: 2 | 4;
 	tempo?: number; // default rig tempo in BPM
 	profile: ControllerProfile;
+	racks: RackDecl[]; // 1–8
 	counters: Counter[];
 	bindings: Binding[];
 }
@@ -129,19 +139,18 @@ export interface InputEvent {
 	value?: number; // turn: 0..1
 }
 
-export interface SlotState {
+/** One place in a rack's chain. An empty position (effect null) is always silent. */
+export interface PositionState {
 	effect: EffectId | null;
 	on: boolean;
-	amount: number;
+	params: number[]; // PARAM_COUNT values, 0..1
 }
 
 export interface RackState {
 	on: boolean;
 	mix: number;
-	mode: RackMode;
-	slots: SlotState[]; // SLOT_COUNT entries
-	params: number[]; // PARAM_COUNT focus parameters, 0..1; the focus effect is slot 1's
 	routes: Record<DeckId, boolean>;
+	chain: PositionState[]; // CHAIN_MAX entries; a loaded chain fills the first ones
 }
 
 export interface DeckState {
@@ -149,7 +158,7 @@ export interface DeckState {
 }
 
 export interface RigState {
-	racks: RackState[]; // RACK_COUNT entries, index 0 is rack 1
+	racks: RackState[]; // one per declared rack, index 0 is rack 1
 	decks: Record<DeckId, DeckState>;
 	counters: Record<string, number>;
 	held: string[]; // input ids held down, in press order
@@ -159,7 +168,7 @@ export interface RigState {
 export interface RigChange {
 	t: number;
 	event: number; // index of the causing input event
-	path: string; // e.g. 'racks.0.on', 'racks.1.routes.B', 'racks.0.slots.2.effect', 'counters.held'
+	path: string; // e.g. 'racks.0.on', 'racks.1.routes.B', 'racks.0.chain.2.effect', 'counters.held'
 	from: unknown;
 	to: unknown;
 }
@@ -182,6 +191,8 @@ export interface StepResult {
 	state: RigState;
 	changes: RigChange[];
 	clamps: Clamp[];
+	/** Bit per rack (0-based) that a press or release ran a step on: that binding set the rack up now. */
+	setUp: number;
 }
 
 /** One stretch of time in which a rack is audible on a deck (DESIGN.md §4.4). */
@@ -203,7 +214,15 @@ export interface Timeline {
 	order: number[];
 }
 
-export const FINDING_KINDS = ['dropout', 'stuck', 'leak', 'clash', 'drift', 'clamp'] as const;
+export const FINDING_KINDS = [
+	'dropout',
+	'stuck-on',
+	'bleed',
+	'clash',
+	'count-left-over',
+	'count-overflow',
+	'takeover'
+] as const;
 export type FindingKind = (typeof FINDING_KINDS)[number];
 
 export interface Finding {

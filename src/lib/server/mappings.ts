@@ -59,7 +59,7 @@ export async function listMappings(db: Database, userId: string): Promise<Mappin
 		)
 		.where(and(isNull(mapping.deletedAt), or(eq(mapping.ownerId, userId), eq(mapping.visibility, 'public'))))
 		.orderBy(desc(mapping.updatedAt));
-	return rows.map((r) => summarize(r.m, r.owner, userId, r.document as Mapping));
+	return rows.map((r) => summarize(r.m, r.owner, userId, storedDocument(r.document)));
 }
 
 export async function getMapping(db: Database, userId: string, id: string, version?: number): Promise<MappingDetail> {
@@ -78,13 +78,19 @@ export async function getMapping(db: Database, userId: string, id: string, versi
 		.orderBy(desc(mappingVersion.version));
 	const chosen = versions.find((v) => v.version === (version ?? row.m.currentVersion));
 	if (!chosen) throw new Refusal(404, `Version ${version} of this mapping does not exist.`);
-	const document = chosen.document as Mapping;
+	const document = storedDocument(chosen.document);
 	return {
 		...summarize(row.m, row.owner, userId, document),
 		document,
 		versionId: chosen.id,
 		versions: versions.map((v) => ({ id: v.id, version: v.version, createdAt: v.createdAt }))
 	};
+}
+
+/** A stored document as the engine reads it: version 2, a version 1 one upgraded on the way. */
+export function storedDocument(doc: unknown): Mapping {
+	if ((doc as { version?: number }).version === 2) return doc as Mapping;
+	return checkDocument(doc);
 }
 
 /** Validates a document with the engine's schema; refuses with every problem, in plain words. */

@@ -10,7 +10,7 @@ import { z } from 'zod';
 import { serialWrite, type Database } from './db';
 import { mappingVersion, rehearsal, rehearsalChunk } from './db/schema';
 import { Refusal } from './http';
-import { getMapping } from './mappings';
+import { getMapping, storedDocument } from './mappings';
 
 export const MAX_CHUNK_EVENTS = 5000;
 
@@ -103,7 +103,7 @@ async function pinnedMapping(db: Database, row: RehearsalRow): Promise<Mapping |
 		.select({ document: mappingVersion.document })
 		.from(mappingVersion)
 		.where(eq(mappingVersion.id, row.mappingVersionId));
-	return (v?.document as Mapping | undefined) ?? null;
+	return v ? storedDocument(v.document) : null;
 }
 
 /** Ends the recording: names it, counts its findings against the mapping version it was played with. */

@@ -5,6 +5,7 @@ import { mkdirSync } from 'node:fs';
 import { dirname } from 'node:path';
 import { databaseUrl } from '../config';
 import * as schema from './schema';
+import { upgradeStoredMappings } from './upgrade-documents';
 
 export function openDatabase(url = databaseUrl()) {
 	if (url.startsWith('file:')) mkdirSync(dirname(url.slice('file:'.length)), { recursive: true });
@@ -28,7 +29,7 @@ export function serialWrite<T>(work: () => Promise<T>): Promise<T> {
 	return run;
 }
 
-/** Brings a database up to the newest schema; a local file also gets WAL and a busy timeout. */
+/** Brings a database up to the newest schema and documents; a local file also gets WAL and a busy timeout. */
 export async function prepareDatabase(client: Client, db: Database, migrationsFolder = 'drizzle') {
 	if (client.protocol === 'file') {
 		await client.execute('PRAGMA journal_mode = WAL');
@@ -36,6 +37,7 @@ export async function prepareDatabase(client: Client, db: Database, migrationsFo
 		await client.execute('PRAGMA foreign_keys = ON');
 	}
 	await migrate(db, { migrationsFolder });
+	await upgradeStoredMappings(db);
 }
 
 export const { client, db } = openDatabase();

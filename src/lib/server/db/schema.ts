@@ -46,6 +46,15 @@ export const mappingVersion = sqliteTable(
 	(t) => [index('mapping_version_idx').on(t.mappingId, t.version)]
 );
 
+/** Version 1 mapping documents as they were stored before the upgrade to version 2 rewrote them. */
+export const mappingVersionV1 = sqliteTable('mapping_version_v1', {
+	versionId: text()
+		.primaryKey()
+		.references(() => mappingVersion.id, { onDelete: 'cascade' }),
+	document: text({ mode: 'json' }).notNull(),
+	archivedAt: now()
+});
+
 /** One recorded rehearsal (a "session" in the product; the auth tables own that table name). */
 export const rehearsal = sqliteTable(
 	'rehearsal',
