@@ -69,7 +69,7 @@ const entries: [GlossaryGroup, string, string][] = [
 	[
 		'rig',
 		'rack',
-		'An effect unit the mapping declares: on or off, a dry/wet mix, which decks it reaches, and its chain.'
+		'A place for effects that the mapping declares: on or off, a dry/wet mix, which decks it reaches, and its chain.'
 	],
 	[
 		'rig',

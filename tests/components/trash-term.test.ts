@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { render, screen, within } from '@testing-library/svelte';
 import TrashList from '$lib/components/trash/TrashList.svelte';
 import Term from '$lib/components/ui/Term.svelte';
+import { FINDING_KINDS } from '$lib/engine';
 import { GLOSSARY, glossaryEntry } from '$lib/glossary';
 
 describe('TrashList', () => {
@@ -97,6 +98,10 @@ describe('the glossary', () => {
 	])('explains “%s” in one line', (id) => {
 		const entry = glossaryEntry(id);
 		expect(entry?.line).toMatch(/^[A-Z].{20,160}[.]$/);
+	});
+
+	it('explains every kind of finding the engine reports', () => {
+		expect(FINDING_KINDS.filter((kind) => !glossaryEntry(kind))).toEqual([]);
 	});
 
 	it('has one entry per anchor', () => {
