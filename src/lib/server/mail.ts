@@ -1,3 +1,4 @@
+import { simpleParser } from 'mailparser';
 import nodemailer from 'nodemailer';
 import { mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
@@ -7,6 +8,8 @@ export interface Mail {
 	to: string;
 	subject: string;
 	text: string;
+	/** An HTML alternative of `text`; the message is then multipart/alternative. */
+	html?: string;
 }
 
 const FROM = process.env.MAIL_FROM ?? 'Padproof <no-reply@padproof.local>';
@@ -33,17 +36,19 @@ export interface OutboxEntry {
 	body: string;
 }
 
-export function readOutbox(limit = 50): OutboxEntry[] {
+/** The newest messages of the local outbox, decoded (headers, transfer encodings, charsets). */
+export async function readOutbox(limit = 50): Promise<OutboxEntry[]> {
 	const dir = outboxDir();
-	return readdirSync(dir)
+	const files = readdirSync(dir)
 		.filter((f) => f.endsWith('.eml'))
 		.sort()
 		.reverse()
-		.slice(0, limit)
-		.map((file) => {
-			const raw = readFileSync(join(dir, file), 'utf8');
-			const [head, ...rest] = raw.split('\n\n');
-			const header = (name: string) => head.match(new RegExp(`^${name}: (.*)$`, 'mi'))?.[1] ?? '';
-			return { file, to: header('To'), subject: header('Subject'), date: header('Date'), body: rest.join('\n\n') };
-		});
+		.slice(0, limit);
+	return Promise.all(
+		files.map(async (file) => {
+			const mail = await simpleParser(readFileSync(join(dir, file)));
+			const to = Array.isArray(mail.to) ? mail.to.map((a) => a.text).join(', ') : (mail.to?.text ?? '');
+			return { file, to, subject: mail.subject ?? '', date: mail.date?.toUTCString() ?? '', body: mail.text ?? '' };
+		})
+	);
 }
