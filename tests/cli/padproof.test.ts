@@ -121,7 +121,7 @@ describe('padproof CLI', () => {
 		const mid = file('take.mid', Buffer.from(exportSessionFile(take, profile).bytes));
 		const r = runCli(['replay', 'demo:broken-row', mid]);
 		expect(r.code).toBe(1);
-		expect(r.out).toMatch(/dropout +12\.438 s – 13\.000 s .*release of Pad 13 at 12\.438 s/);
+		expect(r.out).toMatch(/Dropout +12\.438 s – 13\.000 s .*release of Pad 13 at 12\.438 s/);
 		const web = takeFromMidiFile(readFileSync(mid), profile);
 		expect(web.ok).toBe(true);
 		const asJson = file('take.session.json', web.ok ? web.session : null);
