@@ -44,7 +44,7 @@ test('a wrong password is refused with a plain message', async ({ page }) => {
 
 test('a student gets 403 from the admin page and from its role action', async ({ page, baseURL }) => {
 	await signIn(page, 'student');
-	await expect(page.getByRole('link', { name: 'Admin' })).toHaveCount(0);
+	await expect(page.getByRole('link', { name: 'People' })).toHaveCount(0);
 
 	const response = await page.goto('/admin');
 	expect(response?.status()).toBe(403);
@@ -63,7 +63,7 @@ test('a student gets 403 from the admin page and from its role action', async ({
 test('the admin promotes a student to teacher, who then sees the teaching area', async ({ browser }) => {
 	const admin = await browser.newPage();
 	await signIn(admin, 'admin');
-	await admin.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Admin' }).click();
+	await admin.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'People' }).click();
 	await admin.getByRole('searchbox').fill('omar');
 	await admin.getByRole('button', { name: 'Search' }).click();
 	await expect(admin.getByTestId('user-row')).toHaveCount(1);

@@ -173,7 +173,7 @@ test('the session downloads as JSON and as a Standard MIDI File', async ({ page,
 	expect(bytes.subarray(0, 4).toString('latin1')).toBe('MThd');
 });
 
-test('a session whose mapping was deleted still shows its events and replays against another mapping', async ({
+test('a session whose mapping was deleted keeps replaying with its findings and against another mapping', async ({
 	page,
 	baseURL
 }) => {
@@ -190,9 +190,11 @@ test('a session whose mapping was deleted still shows its events and replays aga
 	expect((await page.request.delete(`/api/mappings/${copyId}`, { headers: { origin: baseURL! } })).status()).toBe(204);
 
 	await openReplay(page, `/sessions/${id}`);
-	await expect(page.getByTestId('mapping-missing')).toContainText('has been deleted');
+	// The mapping went to the trash; the version the session was recorded with stays.
+	await expect(page.getByTestId('mapping-deleted')).toContainText('since deleted');
+	await expect(page.getByTestId('mapping-missing')).toHaveCount(0);
 	await expect(page.getByTestId('event-list').getByRole('button')).toHaveCount(4);
-	await expect(page.getByTestId('findings-original')).toHaveCount(0);
+	await expect(page.getByTestId('findings-original').getByTestId('finding')).toHaveCount(1);
 
 	await page.getByTestId('against-mapping').selectOption({ label: 'Broken stutter row' });
 	await page.getByTestId('against-replay').click();

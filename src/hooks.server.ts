@@ -8,6 +8,7 @@ import { seedDemo } from '$lib/server/db/seed';
 import { authErrorShape, limitBody, secureHeaders } from '$lib/server/guard';
 import { discardUnread } from '$lib/server/http';
 import { sweepIncoming } from '$lib/server/storage';
+import { emptyExpiredTrash } from '$lib/server/trash-purge';
 import type { Handle, ServerInit } from '@sveltejs/kit';
 import { svelteKitHandler } from 'better-auth/svelte-kit';
 
@@ -18,6 +19,7 @@ export const init: ServerInit = async () => {
 	if (demoEnabled()) await seedDemo(db, { randomPasswords: isProduction() });
 	await sweepIncoming();
 	void warmAnalysisWorkers().catch((e) => console.error('The analysis workers did not start:', e));
+	await emptyExpiredTrash(db);
 };
 
 export const handle: Handle = async ({ event, resolve }) => {

@@ -13,7 +13,7 @@ const ITEMS: NavItem[] = [
 	{ href: '/sounds', label: 'Sounds' },
 	{ href: '/controllers', label: 'Controllers' },
 	{ href: '/classes', label: 'Classes', roles: ['teacher', 'admin'] },
-	{ href: '/admin', label: 'Admin', roles: ['admin'] }
+	{ href: '/admin', label: 'People', roles: ['admin'] }
 ];
 
 /** The navigation a role sees; the server checks every area again on its own. */

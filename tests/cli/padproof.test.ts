@@ -1,16 +1,17 @@
 import { describe, expect, it, beforeAll } from 'vitest';
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { runCli } from '$lib/cli/padproof';
 import { demoMapping } from '$lib/engine/demo';
 import { sessionFromEvents } from '$lib/engine/session';
+import { exportSessionFile, takeFromMidiFile } from '$lib/midi/smf';
 
 let dir = '';
 const file = (name: string, content: unknown) => {
 	const path = join(dir, name);
-	writeFileSync(path, typeof content === 'string' ? content : JSON.stringify(content));
+	writeFileSync(path, typeof content === 'string' || content instanceof Buffer ? content : JSON.stringify(content));
 	return path;
 };
 
@@ -102,6 +103,39 @@ describe('padproof CLI', () => {
 				input: 'pad-14'
 			})
 		]);
+	});
+
+	it('replays a Standard MIDI File the way the web import reads it', () => {
+		// 125 BPM at 480 ticks per quarter is 1 ms a tick (ms per beat = 60000 / BPM, REFERENCES.md),
+		// so the file holds the presses at exactly these times.
+		const take = sessionFromEvents(
+			[
+				{ t: 1000, input: 'pad-13', type: 'press' },
+				{ t: 1500, input: 'pad-14', type: 'press' },
+				{ t: 12438, input: 'pad-13', type: 'release' },
+				{ t: 13000, input: 'pad-14', type: 'release' }
+			],
+			125
+		);
+		const profile = demoMapping('broken-row').profile;
+		const mid = file('take.mid', Buffer.from(exportSessionFile(take, profile).bytes));
+		const r = runCli(['replay', 'demo:broken-row', mid]);
+		expect(r.code).toBe(1);
+		expect(r.out).toMatch(/Dropout +12\.438 s – 13\.000 s .*release of Pad 13 at 12\.438 s/);
+		const web = takeFromMidiFile(readFileSync(mid), profile);
+		expect(web.ok).toBe(true);
+		const asJson = file('take.session.json', web.ok ? web.session : null);
+		expect(runCli(['replay', 'demo:broken-row', mid, '--json']).out).toBe(
+			runCli(['replay', 'demo:broken-row', asJson, '--json']).out
+		);
+	});
+
+	it('refuses a MIDI file that is cut short, naming the truncation', () => {
+		const take = sessionFromEvents([{ t: 0, input: 'pad-13', type: 'press' }], 120);
+		const bytes = exportSessionFile(take, demoMapping('broken-row').profile).bytes;
+		const r = runCli(['replay', 'demo:broken-row', file('cut.mid', Buffer.from(bytes.slice(0, 30)))]);
+		expect(r.code).toBe(2);
+		expect(r.err).toMatch(/cut\.mid can't be read:\n {2}\(MIDI file\): The file is truncated/);
 	});
 
 	it.each([

@@ -20,7 +20,7 @@ const base = {
 };
 
 function setup(props: Record<string, unknown> = {}) {
-	const handlers = { onrecord: vi.fn(), onstop: vi.fn(), oncountin: vi.fn(), oncapture: vi.fn() };
+	const handlers = { onrecord: vi.fn(), onstop: vi.fn(), ondiscard: vi.fn(), oncountin: vi.fn(), oncapture: vi.fn() };
 	render(RecorderPanel, { ...base, ...handlers, ...props });
 	return handlers;
 }
@@ -72,5 +72,29 @@ describe('RecorderPanel', () => {
 		setup({ status: 'recording', sessionName: 'Evening run', resumed: true });
 		expect(screen.getByTestId('record-resumed')).toHaveTextContent('Evening run');
 		expect(screen.getByTestId('record-name')).toHaveValue('Evening run');
+	});
+
+	it('asks before saving a take with no events, and can discard it', async () => {
+		const { onstop, ondiscard } = setup({ status: 'recording', eventCount: 0 });
+		await fireEvent.click(screen.getByTestId('record-stop'));
+		expect(onstop).not.toHaveBeenCalled();
+		expect(screen.getByRole('alertdialog')).toHaveTextContent('This take has no presses yet');
+		await fireEvent.click(screen.getByTestId('empty-take-discard'));
+		expect(ondiscard).toHaveBeenCalledOnce();
+		expect(screen.queryByTestId('empty-take')).toBeNull();
+	});
+
+	it('saves an empty take when the performer says so', async () => {
+		const { onstop } = setup({ status: 'recording', eventCount: 0 });
+		await fireEvent.click(screen.getByTestId('record-stop'));
+		await fireEvent.click(screen.getByTestId('empty-take-save'));
+		expect(onstop).toHaveBeenCalledWith('');
+	});
+
+	it('stops a take with events without asking', async () => {
+		const { onstop } = setup({ status: 'recording', eventCount: 3 });
+		await fireEvent.click(screen.getByTestId('record-stop'));
+		expect(onstop).toHaveBeenCalledOnce();
+		expect(screen.queryByTestId('empty-take')).toBeNull();
 	});
 });

@@ -89,3 +89,38 @@ describe('SavedProfiles', () => {
 		expect(new SavedProfiles(memoryStorage({ 'padproof.controller-profiles': '{not json' })).list).toEqual([]);
 	});
 });
+
+describe('describeMessage for system messages', () => {
+	const name = (bytes: number[]) => {
+		const d = decode(bytes, 0);
+		if (d.status === 'error') throw new Error(d.error);
+		return describeMessage(d.message);
+	};
+
+	// System real-time names: MIDI 1.0 Detailed Specification (REFERENCES.md, "System real-time
+	// messages"): F8 Timing Clock, FA Start, FB Continue, FC Stop, FE Active Sensing, FF System Reset.
+	it.each([
+		[0xf8, 'Timing Clock'],
+		[0xfa, 'Start'],
+		[0xfb, 'Continue'],
+		[0xfc, 'Stop'],
+		[0xfe, 'Active Sensing'],
+		[0xff, 'System Reset']
+	])('names %i as MIDI 1.0 does: %s', (status, text) => {
+		expect(name([status])).toBe(text);
+	});
+
+	// F9 and FD are undefined in MIDI 1.0 (REFERENCES.md): the monitor says so instead of inventing a name.
+	it('calls an undefined status undefined', () => {
+		expect(name([0xf9])).toBe('Undefined system message F9');
+		expect(name([0xfd])).toBe('Undefined system message FD');
+	});
+
+	// System common and exclusive names: MIDI 1.0 Detailed Specification (from memory; not quoted
+	// in REFERENCES.md): F0 System Exclusive, F2 Song Position Pointer.
+	it('names a system exclusive and shows its first data bytes', () => {
+		expect(name([0xf0, 0x7e, 0x7f, 0x06, 0x01, 0xf7])).toBe('System Exclusive · 7E 7F 06 01 F7');
+		expect(name([0xf0, 1, 2, 3, 4, 5, 6, 7, 0xf7])).toBe('System Exclusive · 01 02 03 04 05 06 … (9 bytes)');
+		expect(name([0xf2, 0x10, 0x00])).toBe('Song Position Pointer · 10 00');
+	});
+});

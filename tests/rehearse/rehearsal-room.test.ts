@@ -34,6 +34,9 @@ class FakeRecorder implements RoomRecorder {
 		this.status = 'saved';
 		return { id: 's1', findings: 0 };
 	};
+	discard = async () => {
+		if (this.eventCount === 0) this.status = 'idle';
+	};
 	resume = async () => false;
 	attachAudio = () => {};
 	dispose = () => {};

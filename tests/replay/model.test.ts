@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { buildReplay, changesBetween, eventAt, padLanes } from '$lib/replay/model';
+import { buildReplay, changesBetween, EMPTY_PLOT_MS, eventAt, padLanes } from '$lib/replay/model';
 import type { RigChange } from '$lib/engine';
 import { brokenRow, chord, press, release, sessionOf, twoDeck } from './factories';
 
@@ -63,7 +63,13 @@ describe('buildReplay', () => {
 
 	it('shows a little past the last event', () => {
 		expect(buildReplay(brokenRow(), sessionOf(chord())).duration).toBe(2500);
-		expect(buildReplay(brokenRow(), sessionOf([])).duration).toBe(4000);
+	});
+
+	it('gives one length: the last event, and 0 for a session with no events', () => {
+		expect(buildReplay(brokenRow(), sessionOf(chord())).length).toBe(2000);
+		const empty = buildReplay(brokenRow(), sessionOf([]));
+		expect(empty.length).toBe(0);
+		expect(empty.duration).toBe(EMPTY_PLOT_MS);
 	});
 });
 

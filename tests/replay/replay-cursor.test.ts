@@ -46,6 +46,14 @@ describe('ReplayCursor', () => {
 		expect(cursor.t).toBe(0);
 	});
 
+	it('does not play a session with no events', () => {
+		const { ticker, advance } = manualTicker();
+		const cursor = new ReplayCursor([], 0, 0, ticker);
+		cursor.play();
+		advance(4000);
+		expect([cursor.playing, cursor.t]).toEqual([false, 0]);
+	});
+
 	it('stays put after a pause', () => {
 		const { ticker, advance } = manualTicker();
 		const cursor = new ReplayCursor(times, 2500, 0, ticker);

@@ -55,11 +55,11 @@ describe('mappings in the database', () => {
 	});
 
 	it('lets only the owner change or delete a public mapping', async () => {
-		const demo = (await listMappings(t.db, t.kai)).find((m) => m.demo)!;
-		await expect(deleteMapping(t.db, t.kai, demo.id)).rejects.toMatchObject({ status: 403 });
-		await expect(saveVersion(t.db, t.kai, demo.id, demoMapping('two-deck'))).rejects.toMatchObject({ status: 403 });
-		await deleteMapping(t.db, t.teacher, demo.id);
-		await expect(getMapping(t.db, t.kai, demo.id)).rejects.toMatchObject({ status: 404 });
+		const id = await createMapping(t.db, t.teacher, { document: demoMapping('two-deck'), visibility: 'public' });
+		await expect(deleteMapping(t.db, t.kai, id)).rejects.toMatchObject({ status: 403 });
+		await expect(saveVersion(t.db, t.kai, id, demoMapping('two-deck'))).rejects.toMatchObject({ status: 403 });
+		await deleteMapping(t.db, t.teacher, id);
+		await expect(getMapping(t.db, t.kai, id)).rejects.toMatchObject({ status: 404 });
 	});
 });
 

@@ -10,6 +10,7 @@ import { parseMappingText, type Problem } from '../engine/mapping';
 import { replay } from '../engine/replay';
 import { parseSession, sessionEvents, sessionReplay } from '../engine/session';
 import { FINDING_INFO, numberedFinding } from '../engine/findings';
+import { isStandardMidiFile, takeFromMidiFile } from '../midi/smf';
 import { groupIds, groupInputs, verifyGroupSync, type VerifyResult } from '../engine/verify';
 import type { Finding, Mapping } from '../engine/types';
 
@@ -23,8 +24,9 @@ Usage:
   padproof verify <mapping.json> [--group ID | --inputs a,b,c] [--json]
       Try every press/release order of a hold group (all groups when none is named), from the
       starting rig, and print a proof or the shortest sequence that breaks it.
-  padproof replay <mapping.json> <session.json> [--json]
-      Replay a recorded session from the rig and beat clock it was recorded with, and list its
+  padproof replay <mapping.json> <session.json | take.mid> [--json]
+      Replay a recorded session (or a Standard MIDI File of pad presses, read as the web
+      import reads it) from the rig and beat clock it was recorded with, and list its
       findings: ${Object.values(FINDING_INFO)
 				.map((i) => i.label.toLowerCase())
 				.join(', ')}.
@@ -48,8 +50,12 @@ class Unreadable extends Error {
 }
 
 function readText(file: string): string {
+	return new TextDecoder().decode(readBytes(file));
+}
+
+function readBytes(file: string): Uint8Array {
 	try {
-		return readFileSync(file, 'utf8');
+		return readFileSync(file);
 	} catch (e) {
 		throw new Unreadable(file, [
 			{
@@ -68,10 +74,17 @@ function loadMapping(arg: string): Mapping {
 	return r.mapping;
 }
 
-function loadSession(file: string) {
+/** A session document (JSON) or, as the web import reads it, a Standard MIDI File decoded with the mapping's profile. */
+function loadSession(file: string, mapping: Mapping) {
+	const bytes = readBytes(file);
+	if (isStandardMidiFile(bytes)) {
+		const r = takeFromMidiFile(bytes, mapping.profile);
+		if (!r.ok) throw new Unreadable(file, [{ path: '(MIDI file)', message: r.error }]);
+		return r.session;
+	}
 	let data: unknown;
 	try {
-		data = JSON.parse(readText(file));
+		data = JSON.parse(new TextDecoder().decode(bytes));
 	} catch (e) {
 		if (e instanceof Unreadable) throw e;
 		throw new Unreadable(file, [{ path: '(document)', message: `is not valid JSON: ${(e as Error).message}` }]);
@@ -162,7 +175,7 @@ function verify(a: Args): CliResult {
 
 function replayCommand(a: Args): CliResult {
 	const mapping = loadMapping(need(a.files[0], 'a mapping file'));
-	const session = loadSession(need(a.files[1], 'a session file'));
+	const session = loadSession(need(a.files[1], 'a session file'), mapping);
 	const { events, indexes } = sessionEvents(session);
 	const options = sessionReplay(mapping, session);
 	const timeline = replay(mapping, events, options);

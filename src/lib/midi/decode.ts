@@ -111,6 +111,32 @@ export function decodeMessage(bytes: ArrayLike<number>, profile: ControllerProfi
 	return createDecoder(profile)(bytes, t);
 }
 
+// System message names as the MIDI 1.0 Detailed Specification gives them. F4, F5, F9 and FD are
+// undefined there.
+const SYSTEM_NAMES: Record<number, string> = {
+	0xf0: 'System Exclusive',
+	0xf1: 'MIDI Time Code Quarter Frame',
+	0xf2: 'Song Position Pointer',
+	0xf3: 'Song Select',
+	0xf6: 'Tune Request',
+	0xf7: 'End of Exclusive',
+	0xf8: 'Timing Clock',
+	0xfa: 'Start',
+	0xfb: 'Continue',
+	0xfc: 'Stop',
+	0xfe: 'Active Sensing',
+	0xff: 'System Reset'
+};
+
+function describeSystem(bytes: readonly number[]): string {
+	const status = bytes[0];
+	const name = SYSTEM_NAMES[status];
+	if (!name) return `Undefined system message ${hex([status])}`;
+	const data = bytes.slice(1);
+	if (data.length === 0) return name;
+	return `${name} · ${hex(data.slice(0, 6))}${data.length > 6 ? ` … (${bytes.length} bytes)` : ''}`;
+}
+
 /** A short human summary for the monitor: "Note On ch 1 · 36 vel 100". */
 export function describeMessage(message: MidiMessage): string {
 	const ch = `ch ${message.channel}`;
@@ -130,6 +156,6 @@ export function describeMessage(message: MidiMessage): string {
 		case 'pitch-bend':
 			return `Pitch bend ${ch} · ${message.data2}`;
 		default:
-			return `System ${hex(message.bytes.slice(0, 6))}${message.bytes.length > 6 ? ' …' : ''}`;
+			return describeSystem(message.bytes);
 	}
 }

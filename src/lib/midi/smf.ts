@@ -116,8 +116,14 @@ const u32 = (b: number[], at: number) => ((b[at] << 24) >>> 0) + (b[at + 1] << 1
  * claims more bytes than the file holds. Unknown chunk types are skipped, as RP-001 asks.
  */
 function frameChunks(bytes: number[]): { ok: true; file: number[]; warnings: string[] } | { ok: false; error: string } {
-	if (bytes.length < 14 || ascii(bytes, 0) !== 'MThd') {
+	if (bytes.length < 4 || ascii(bytes, 0) !== 'MThd') {
 		return { ok: false, error: 'Not a Standard MIDI File: it does not start with an "MThd" header.' };
+	}
+	if (bytes.length < 14) {
+		return {
+			ok: false,
+			error: `The file is truncated: it ends inside its header, after ${bytes.length} of the header's 14 bytes.`
+		};
 	}
 	const headerLength = u32(bytes, 4);
 	if (headerLength < 6 || 8 + headerLength > bytes.length) {
@@ -130,7 +136,10 @@ function frameChunks(bytes: number[]): { ok: true; file: number[]; warnings: str
 	let tracks = 0;
 	while (at < bytes.length) {
 		if (at + 8 > bytes.length) {
-			return { ok: false, error: `The file ends in the middle of a chunk header (byte ${at}).` };
+			return {
+				ok: false,
+				error: `The file is truncated: it ends in the middle of a chunk header, ${bytes.length - at} bytes after byte ${at}.`
+			};
 		}
 		const id = ascii(bytes, at);
 		const length = u32(bytes, at + 4);
@@ -288,11 +297,19 @@ export function exportSessionFile(session: SessionDocument, profile: ControllerP
 	return exportSessionMidi(sessionEvents(session).events, profile, { bpm: session.tempo, name: session.mapping });
 }
 
+/** Whether bytes start like a Standard MIDI File ("MThd", SMF 1.0), whatever follows. */
+export const isStandardMidiFile = (bytes: ArrayLike<number>) =>
+	bytes.length >= 4 && bytes[0] === 0x4d && bytes[1] === 0x54 && bytes[2] === 0x68 && bytes[3] === 0x64;
+
 export type SessionImport =
 	{ ok: true; session: SessionDocument; unmapped: number; warnings: string[] } | { ok: false; error: string };
 
 /** A file as a session document: every note and CC kept with its raw bytes, decoded with the profile. */
-export function importSessionFile(input: ArrayLike<number> | ArrayBuffer, profile: ControllerProfile): SessionImport {
+export function importSessionFile(
+	input: ArrayLike<number> | ArrayBuffer,
+	profile: ControllerProfile,
+	startedAt = new Date(0).toISOString()
+): SessionImport {
 	const r = importSessionMidi(input, profile);
 	if (!r.ok) return r;
 	const decode = createDecoder(profile);
@@ -309,9 +326,29 @@ export function importSessionFile(input: ArrayLike<number> | ArrayBuffer, profil
 	const session: SessionDocument = {
 		version: 2,
 		tempo: r.bpm,
-		startedAt: new Date(0).toISOString(),
+		startedAt,
 		clock: constantClock(r.bpm, 0),
 		events
 	};
 	return { ok: true, session, unmapped: r.unmapped, warnings: r.warnings };
+}
+
+/**
+ * A take from a MIDI file, as the web import and the command line both read it: the session
+ * document, refused when none of its notes is a pad of the mapping (replaying it would show nothing).
+ */
+export function takeFromMidiFile(
+	input: ArrayLike<number> | ArrayBuffer,
+	profile: ControllerProfile,
+	startedAt?: string
+): SessionImport {
+	const r = importSessionFile(input, profile, startedAt);
+	if (!r.ok || r.session.events.some((e) => e.input !== null)) return r;
+	return {
+		ok: false,
+		error:
+			r.session.events.length === 0
+				? 'The file holds no notes or controller messages.'
+				: `None of its ${r.session.events.length} notes is one this mapping's pads answer to.`
+	};
 }

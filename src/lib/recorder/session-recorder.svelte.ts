@@ -160,6 +160,30 @@ export class SessionRecorder {
 		}
 	}
 
+	/** Throws away a take with no events: the server forgets the session (nothing to restore). */
+	async discard(): Promise<void> {
+		const recording = this.#recording;
+		if (!recording || this.eventCount > 0) return;
+		this.status = 'stopping';
+		clearInterval(this.#timer);
+		await this.#stopAudio();
+		try {
+			const response = await this.#fetch(`/api/sessions/${recording.sessionId}`, { method: 'DELETE' });
+			if (!response.ok && response.status !== 404) throw new Error(`The server answered ${response.status}.`);
+		} catch (e) {
+			this.status = 'recording';
+			this.#timer = setInterval(() => void this.#tick(), this.#options.flushEveryMs ?? 2000);
+			this.error = `The empty take could not be discarded: ${e instanceof Error ? e.message : String(e)}`;
+			return;
+		}
+		this.#queue.clearActive(recording.mappingId);
+		this.#end();
+		this.sessionId = null;
+		this.name = '';
+		this.status = 'idle';
+		this.error = null;
+	}
+
 	/** Records the master output too; it is uploaded when the recording stops. */
 	attachAudio(stream: MediaStream): void {
 		if (typeof MediaRecorder === 'undefined') {

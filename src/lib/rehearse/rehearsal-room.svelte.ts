@@ -42,6 +42,7 @@ export type RoomRecorder = Pick<
 	| 'start'
 	| 'record'
 	| 'stop'
+	| 'discard'
 	| 'resume'
 	| 'attachAudio'
 	| 'dispose'
@@ -213,6 +214,11 @@ export class RehearsalRoom {
 		}
 		const result = await this.recorder.stop(name);
 		if (result) this.saved = result;
+	}
+
+	/** Throws away a take that recorded nothing (the recorder refuses one with events). */
+	discardRecording(): Promise<void> {
+		return this.recorder.discard();
 	}
 
 	/** Lets go of every pad and puts the rig back to its start; not while recording. */

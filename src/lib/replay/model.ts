@@ -63,8 +63,13 @@ export interface ReplayModel {
 	pads: PadLane[];
 	audible: AudibleLane[];
 	counters: CounterLane[];
-	duration: number; // ms shown on the plot
+	/** The session's one length (ms): its last event, landing or finding end; 0 when it has no events. */
+	length: number;
+	duration: number; // ms the plot spans: the length and a little room after it
 }
+
+/** What the plot spans for a session with no events (nothing plays; the empty plot still has a scale). */
+export const EMPTY_PLOT_MS = 1000;
 
 /** An input's name as the engine's messages give it (one naming rule: `inputName`). */
 export function inputLabel(mapping: Mapping | null, input: string): string {
@@ -153,7 +158,8 @@ export function buildReplay(mapping: Mapping | null, session: SessionDocument): 
 		pads: padLanes(mapping, events),
 		audible: timeline ? audibleLanes(timeline, findings) : [],
 		counters: mapping && timeline ? counterLanes(mapping, timeline, options.from) : [],
-		duration: last === 0 ? 4000 : last + Math.max(500, last * 0.05)
+		length: last,
+		duration: last === 0 ? EMPTY_PLOT_MS : last + Math.max(500, last * 0.05)
 	};
 }
 

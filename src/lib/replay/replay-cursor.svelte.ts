@@ -59,7 +59,8 @@ export class ReplayCursor {
 	}
 
 	play(): void {
-		if (this.playing) return;
+		// A session with no events has nothing to play: it does not run an empty clock.
+		if (this.playing || this.duration === 0) return;
 		if (this.t >= this.duration) this.t = 0;
 		this.playing = true;
 		this.#last = this.ticker.now();

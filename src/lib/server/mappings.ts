@@ -64,7 +64,7 @@ export async function listMappings(db: Database, userId: string): Promise<Mappin
 			mappingVersion,
 			and(eq(mappingVersion.mappingId, mapping.id), eq(mappingVersion.version, mapping.currentVersion))
 		)
-		.where(or(eq(mapping.ownerId, userId), eq(mapping.visibility, 'public')))
+		.where(and(isNull(mapping.deletedAt), or(eq(mapping.ownerId, userId), eq(mapping.visibility, 'public'))))
 		.orderBy(desc(mapping.updatedAt));
 	return rows.map((r) => summarize(r.m, r.owner, userId, storedDocument(r.document), r.lintCount));
 }
@@ -75,7 +75,7 @@ export async function getMapping(db: Database, userId: string, id: string, versi
 		.from(mapping)
 		.innerJoin(user, eq(user.id, mapping.ownerId))
 		.where(eq(mapping.id, id));
-	if (!row || (row.m.ownerId !== userId && row.m.visibility !== 'public')) {
+	if (!row || row.m.deletedAt || (row.m.ownerId !== userId && row.m.visibility !== 'public')) {
 		throw new Refusal(404, 'That mapping does not exist, or it is private to someone else.');
 	}
 	const versions = await db
@@ -147,7 +147,7 @@ export async function createMapping(
 
 async function owned(db: Database, userId: string, id: string) {
 	const [row] = await db.select().from(mapping).where(eq(mapping.id, id));
-	if (!row || (row.ownerId !== userId && row.visibility !== 'public'))
+	if (!row || row.deletedAt || (row.ownerId !== userId && row.visibility !== 'public'))
 		throw new Refusal(404, 'That mapping does not exist, or it is private to someone else.');
 	if (row.ownerId !== userId)
 		throw new Refusal(403, 'Only the owner can change this mapping. Fork it to make your own copy.');
@@ -223,18 +223,14 @@ export async function setVisibility(db: Database, userId: string, id: string, vi
 }
 
 /**
- * Deletes a mapping and its versions in one transaction, explicitly (a libSQL server or a pooled
- * connection may not enforce foreign keys): sessions played with it keep their data and lose the link.
+ * Moves a mapping to its owner's trash. Its versions stay, so every session recorded with it (by
+ * anyone, when it was public) keeps replaying with its findings. Demo mappings belong to everyone.
  */
 export async function deleteMapping(db: Database, userId: string, id: string) {
-	await owned(db, userId, id);
-	await db.transaction(async (tx) => {
-		const versions = tx.select({ id: mappingVersion.id }).from(mappingVersion).where(eq(mappingVersion.mappingId, id));
-		await tx.update(rehearsal).set({ mappingVersionId: null }).where(inArray(rehearsal.mappingVersionId, versions));
-		await tx.update(rehearsal).set({ mappingId: null }).where(eq(rehearsal.mappingId, id));
-		await tx.delete(mappingVersion).where(eq(mappingVersion.mappingId, id));
-		await tx.delete(mapping).where(eq(mapping.id, id));
-	});
+	const row = await owned(db, userId, id);
+	if (row.demoSlug)
+		throw new Refusal(403, 'Demo mappings are shared with everyone and cannot be deleted. Fork one to change it.');
+	await db.update(mapping).set({ deletedAt: new Date() }).where(eq(mapping.id, id));
 }
 
 /** Counts the lint findings of versions saved before the count was kept; returns how many it filled in. */

@@ -1,6 +1,8 @@
 // Recorded sessions. Events arrive in numbered chunks while a rehearsal runs; a chunk's number is
 // its identity, so a resent chunk (after a lost answer, a reload or an offline queue) is stored
 // once. The session document is the chunks in number order.
+import { documentKind } from '$lib/documents';
+import { buildReplay } from '$lib/replay/model';
 import {
 	analyze,
 	clockSchema,
@@ -48,6 +50,7 @@ async function mine(db: Database, userId: string, id: string): Promise<Rehearsal
 	const [row] = await db.select().from(rehearsal).where(eq(rehearsal.id, id));
 	if (!row || row.ownerId !== userId)
 		throw new Refusal(404, 'That session does not exist, or it belongs to someone else.');
+	if (row.deletedAt) throw new Refusal(404, 'That session is in the trash. Restore it from the trash to open it.');
 	return row;
 }
 
@@ -174,13 +177,15 @@ async function pinnedMapping(db: Database, row: RehearsalRow): Promise<Mapping |
 export async function finishRehearsal(db: Database, userId: string, id: string, name?: string, clock?: SessionClock) {
 	const row = await mine(db, userId, id);
 	if (clock) await serialWrite(() => db.update(rehearsal).set({ clock }).where(eq(rehearsal.id, id)));
+	const { session } = await sessionDocument(db, userId, id);
+	// The events' length without the replay (that runs off this thread below).
+	const durationMs = buildReplay(null, session).length;
 	await serialWrite(() =>
 		db
 			.update(rehearsal)
-			.set({ status: 'saved', name: name?.trim() || row.name })
+			.set({ status: 'saved', name: name?.trim() || row.name, durationMs })
 			.where(eq(rehearsal.id, id))
 	);
-	const { session } = await sessionDocument(db, userId, id);
 	const mapping = await pinnedMapping(db, row);
 	const findings = mapping ? await countFindingsOffThread({ mapping, session }) : 0;
 	await serialWrite(() => db.update(rehearsal).set({ findingCount: findings }).where(eq(rehearsal.id, id)));
@@ -201,6 +206,7 @@ export async function listRehearsals(db: Database, userId: string, filter = '') 
 		.where(
 			and(
 				eq(rehearsal.ownerId, userId),
+				isNull(rehearsal.deletedAt),
 				q
 					? sql`(${rehearsal.name} like ${pattern} escape '\\' or ${rehearsal.mappingName} like ${pattern} escape '\\')`
 					: undefined
@@ -215,27 +221,24 @@ export async function getRehearsal(db: Database, userId: string, id: string) {
 }
 
 /**
- * Deletes a session and its chunks in one transaction (explicitly: no reliance on a connection's
- * foreign-key pragma). Answers the row as it was when deleted, so the caller removes the audio
- * file attached at that moment, also when an upload attached one meanwhile.
+ * Moves a session to the trash; its events and audio stay until the trash is purged. A session
+ * with no events and no audio (an empty take thrown away) is removed at once: nothing to restore.
  */
 export async function deleteRehearsal(db: Database, userId: string, id: string) {
-	await mine(db, userId, id);
-	const [row] = await serialWrite(() =>
-		db.transaction(async (tx) => {
-			await tx.delete(rehearsalChunk).where(eq(rehearsalChunk.rehearsalId, id));
-			return tx
-				.delete(rehearsal)
-				.where(and(eq(rehearsal.id, id), eq(rehearsal.ownerId, userId)))
-				.returning();
-		})
-	);
-	if (!row) throw new Refusal(404, 'That session does not exist, or it belongs to someone else.');
+	const row = await mine(db, userId, id);
+	if (row.eventCount === 0 && !row.audioFile) await db.delete(rehearsal).where(eq(rehearsal.id, id));
+	else await db.update(rehearsal).set({ deletedAt: new Date() }).where(eq(rehearsal.id, id));
 	return row;
 }
 
 /** Saves an imported session document (already parsed) as a finished session of a mapping. */
 export async function importSession(db: Database, userId: string, mappingId: string, input: unknown, name?: string) {
+	const kind = documentKind(input);
+	if (kind === 'mapping' || kind === 'drill')
+		throw new Refusal(
+			400,
+			`This is a ${kind} file, not a session.${kind === 'mapping' ? ' Import it on the Mappings page.' : ''}`
+		);
 	const parsed = parseSession(input);
 	if (!parsed.ok) {
 		const first = parsed.problems[0];

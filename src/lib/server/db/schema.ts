@@ -24,6 +24,8 @@ export const mapping = sqliteTable(
 			.notNull(),
 		demoSlug: text().unique(),
 		currentVersion: integer().notNull().default(1),
+		/** Set when the owner deletes it: in the trash for 30 days, then purged (see server/trash.ts). */
+		deletedAt: integer({ mode: 'timestamp_ms' }),
 		createdAt: now(),
 		updatedAt: now().$onUpdate(() => new Date())
 	},
@@ -82,6 +84,8 @@ export const rehearsal = sqliteTable(
 		audioFile: text(),
 		audioType: text(),
 		audioBytes: integer(),
+		/** Set when the owner deletes it: in the trash for 30 days, then purged (see server/trash.ts). */
+		deletedAt: integer({ mode: 'timestamp_ms' }),
 		createdAt: now(),
 		updatedAt: now().$onUpdate(() => new Date())
 	},

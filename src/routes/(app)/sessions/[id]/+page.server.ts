@@ -59,7 +59,8 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 			mappingId: recorded?.id ?? null,
 			mappingVersion: recorded?.versions.find((v) => v.id === row.mappingVersionId)?.version ?? null,
 			newestVersion: recorded?.version ?? null,
-			hasAudio: row.audioFile !== null
+			hasAudio: row.audioFile !== null,
+			mappingDeleted: row.mappingId !== null && recorded === null && mapping !== null
 		},
 		document: session,
 		mapping,

@@ -2,8 +2,7 @@ import { clockSchema } from '$lib/engine';
 import { db } from '$lib/server/db';
 import { changeSessionBody } from '$lib/server/api-schemas';
 import { readJson, refusalResponse, signedIn } from '$lib/server/http';
-import { finishRehearsal, renameRehearsal, sessionDocument } from '$lib/server/rehearsals';
-import { deleteSession } from '$lib/server/session-audio';
+import { deleteRehearsal, finishRehearsal, renameRehearsal, sessionDocument } from '$lib/server/rehearsals';
 import { json } from '@sveltejs/kit';
 import type { RequestHandler } from './$types';
 
@@ -36,7 +35,7 @@ export const PATCH: RequestHandler = async ({ locals, params, request }) => {
 
 export const DELETE: RequestHandler = async ({ locals, params }) => {
 	try {
-		await deleteSession(db, signedIn(locals).id, params.id);
+		await deleteRehearsal(db, signedIn(locals).id, params.id); // to the trash; purged after 30 days
 		return new Response(null, { status: 204 });
 	} catch (e) {
 		return refusalResponse(e);
