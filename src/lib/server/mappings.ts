@@ -5,6 +5,7 @@ import { and, desc, eq, or } from 'drizzle-orm';
 import { randomUUID } from 'node:crypto';
 import type { Database } from './db';
 import { mapping, mappingVersion, user } from './db/schema';
+import { sharedWith } from './classes';
 import { Refusal } from './http';
 
 export type Visibility = 'private' | 'public';
@@ -68,7 +69,8 @@ export async function getMapping(db: Database, userId: string, id: string, versi
 		.from(mapping)
 		.innerJoin(user, eq(user.id, mapping.ownerId))
 		.where(eq(mapping.id, id));
-	if (!row || (row.m.ownerId !== userId && row.m.visibility !== 'public')) {
+	// A private mapping is also readable by the members of a class it is shared with.
+	if (!row || (row.m.ownerId !== userId && row.m.visibility !== 'public' && !(await sharedWith(db, userId, id)))) {
 		throw new Refusal(404, 'That mapping does not exist, or it is private to someone else.');
 	}
 	const versions = await db
