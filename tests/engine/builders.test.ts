@@ -6,7 +6,7 @@ import { parseMapping } from '$lib/engine/mapping';
 import { legatoMapping, mappingWith, press, release } from './factories';
 
 // Check values: common practice of the trade — a one-press effect pad sets the whole rack in a
-// single press (effect, parameter, dry/wet, mode, routing to its deck and away from every other
+// single press (its chain, parameters, dry/wet, routing to its deck and away from every other
 // deck, on) and its release switches it off; the effect is heard from the press itself.
 describe('onePressEffect', () => {
 	const pad = (decks: 2 | 4) =>
@@ -18,7 +18,6 @@ describe('onePressEffect', () => {
 					effect: 'echo',
 					params: [0.6],
 					mix: 0.8,
-					mode: 'focus',
 					deck: 'A',
 					decks
 				})
@@ -32,15 +31,19 @@ describe('onePressEffect', () => {
 	] as const)('sets the whole rack in one press in a %i-deck mapping', (decks, others) => {
 		const m = pad(decks);
 		let s = initialRigState(m);
-		// An earlier pad left the rack on the other decks and in chain mode.
+		// An earlier pad left the rack on the other decks with a longer chain of its own.
+		const left = s.racks[0].chain.map(() => ({ effect: 'reverb' as const, on: true, params: [0.1, 0.1, 0.1] }));
 		for (const d of others)
-			s = { ...s, racks: [{ ...s.racks[0], routes: { ...s.racks[0].routes, [d]: true } }, ...s.racks.slice(1)] };
+			s = {
+				...s,
+				racks: [{ ...s.racks[0], chain: left, routes: { ...s.racks[0].routes, [d]: true } }, ...s.racks.slice(1)]
+			};
 		const r = applyEvent(m, s, press(1000, 'p1'), 0);
 		const rack = r.state.racks[0];
-		expect(rack.slots[0].effect).toBe('echo');
-		expect(rack.params[0]).toBe(0.6);
+		expect(rack.chain[0]).toMatchObject({ effect: 'echo', on: true });
+		expect(rack.chain[0].params[0]).toBe(0.6);
+		expect(rack.chain.slice(1).every((p) => p.effect === null && !p.on)).toBe(true);
 		expect(rack.mix).toBe(0.8);
-		expect(rack.mode).toBe('focus');
 		expect(rack.routes.A).toBe(true);
 		for (const d of others) expect(rack.routes[d]).toBe(false);
 		expect(rack.on).toBe(true);
@@ -59,28 +62,40 @@ describe('onePressEffect', () => {
 		expect(t.audible).toEqual([{ rack: 1, deck: 'A', start: 1234.5, end: 2000, startEvent: 0, endEvent: 1 }]);
 	});
 
-	it('in chain mode switches the other slots of the rack off', () => {
+	it('loads a chain of several effects with parameters per position', () => {
 		const b = onePressEffect({
 			input: 'p1',
 			rack: 2,
-			slot: 2,
-			effect: 'filter',
-			amount: 0.3,
+			chain: ['filter', 'echo'],
+			params: [[0.3], [undefined, 0.9]],
 			mix: 1,
-			mode: 'chain',
 			deck: 'B',
 			decks: 2
 		});
 		const s = applyEvents(mappingWith([b]), [press(0, 'p1')]);
-		expect(s.racks[1].slots.map((x) => x.on)).toEqual([false, true, false]);
-		expect(s.racks[1].slots[1]).toEqual({ effect: 'filter', on: true, amount: 0.3 });
+		expect(s.racks[1].chain.map((x) => [x.effect, x.on])).toEqual([
+			['filter', true],
+			['echo', true],
+			[null, false],
+			[null, false]
+		]);
+		expect(s.racks[1].chain[0].params[0]).toBe(0.3);
+		expect(s.racks[1].chain[1].params[1]).toBe(0.9);
 		expect(isAudible(s, 2, 'B')).toBe(true);
 	});
 
-	it('refuses a focus-mode effect outside slot 1', () => {
+	it('refuses a chain of no effects or more than four', () => {
+		expect(() => onePressEffect({ input: 'p1', rack: 1, chain: [], mix: 1, deck: 'A', decks: 2 })).toThrow(/1 to 4/);
 		expect(() =>
-			onePressEffect({ input: 'p1', rack: 1, slot: 2, effect: 'echo', mix: 1, mode: 'focus', deck: 'A', decks: 2 })
-		).toThrow(/slot 1/);
+			onePressEffect({
+				input: 'p1',
+				rack: 1,
+				chain: ['echo', 'gate', 'echo', 'gate', 'echo'],
+				mix: 1,
+				deck: 'A',
+				decks: 2
+			})
+		).toThrow(/1 to 4/);
 	});
 
 	it('writes a binding the mapping schema accepts', () => {
@@ -120,7 +135,7 @@ describe('legatoRow', () => {
 			decks: 2
 		});
 		const s = applyEvents(mappingWith(row.bindings, { counters: [row.counter] }), [press(0, 'p2')]);
-		expect(s.racks[0].params[0]).toBe(0.875); // the 1/32 band's middle in SLICES (our own choice)
+		expect(s.racks[0].chain[0].params[0]).toBe(0.875); // the 1/32 band's middle in SLICES (our own choice)
 	});
 
 	it('gives the counter room for every pad of a long row', () => {

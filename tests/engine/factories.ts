@@ -1,6 +1,6 @@
 // Test fixtures: small mappings and event lists built the way a person would build them.
 import { legatoRow, onePressEffect } from '$lib/engine/builders';
-import type { Binding, ControllerInput, Counter, InputEvent, Mapping } from '$lib/engine/types';
+import type { Binding, ControllerInput, Counter, InputEvent, Mapping, RackDecl } from '$lib/engine/types';
 
 export function pads(n: number, channel = 1): ControllerInput[] {
 	return Array.from({ length: n }, (_, i) => ({
@@ -14,16 +14,22 @@ export function pads(n: number, channel = 1): ControllerInput[] {
 	}));
 }
 
+/** `n` declared racks, `r1`… labelled "Rack 1"…. */
+export function racks(n = 4): RackDecl[] {
+	return Array.from({ length: n }, (_, i) => ({ id: `r${i + 1}`, label: `Rack ${i + 1}` }));
+}
+
 export function mappingWith(
 	bindings: Binding[],
 	options: Partial<Mapping> & { inputs?: ControllerInput[] } = {}
 ): Mapping {
 	const { inputs, ...rest } = options;
 	return {
-		version: 1,
+		version: 2,
 		name: 'Test set',
 		decks: 2,
 		profile: { name: 'Test grid', inputs: inputs ?? pads(16) },
+		racks: racks(),
 		counters: [],
 		bindings,
 		...rest

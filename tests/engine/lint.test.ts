@@ -39,21 +39,21 @@ describe('lintMapping', () => {
 					],
 					{ decks: 4 }
 				),
-			{ rule: 'partial-route', binding: 0, step: 5, message: /routes rack 1 to deck A but not away from deck C, D/ }
+			{ rule: 'partial-route', binding: 0, step: 3, message: /routes rack 1 to deck A but not away from deck C, D/ }
 		],
 		[
-			'a pad that relies on focus mode without setting it',
-			() => mappingWith([without(echo('p1'), (s) => s.target.kind === 'rack-mode')]),
-			{ rule: 'unset-mode', binding: 0, step: 6, message: /relies on focus mode without setting it/ }
+			'a one-press pad that does not load its chain',
+			() => mappingWith([without(echo('p1'), (s) => s.target.kind === 'chain')]),
+			{ rule: 'no-chain-load', binding: 0, step: 4, message: /switches rack 1 on without loading its chain/ }
 		],
 		[
-			'a pad that leaves the mode to whichever pad came before',
-			() =>
-				mappingWith([
-					{ input: 'p1', steps: [{ target: { kind: 'rack-on', rack: 1 }, action: 'momentary' }] },
-					echo('p2')
-				]),
-			{ rule: 'unset-mode', binding: 0, step: 0, message: /while pad 2 changes that mode/ }
+			'a counter smaller than its hold group',
+			() => {
+				const m = legatoMapping(4);
+				m.counters[0].max = 3;
+				return m;
+			},
+			{ rule: 'counter-too-small', binding: 0, step: null, message: /goes up to 3, but 4 pads count it/ }
 		],
 		[
 			'a legato group sharing momentary on/off without a counter',
@@ -61,7 +61,7 @@ describe('lintMapping', () => {
 			{
 				rule: 'legato-without-counter',
 				binding: 0,
-				step: 7,
+				step: 5,
 				message: /the 4 pads of row switch rack 1 on and off as plain momentary steps/
 			}
 		],

@@ -28,7 +28,7 @@ describe('parseMapping', () => {
 		const m = valid();
 		m.decks = 3;
 		m.profile.inputs[0].channel = 17;
-		m.bindings[1].steps[0].target = { kind: 'rack-on', rack: 5 };
+		m.bindings[1].steps[0].target = { kind: 'rack-on', rack: 9 };
 		delete m.name;
 		const r = parseMapping(m);
 		expect(r.ok).toBe(false);
@@ -37,7 +37,7 @@ describe('parseMapping', () => {
 				{ path: 'name', message: 'is required' },
 				{ path: 'decks', message: 'must be one of 2, 4' },
 				{ path: 'profile.inputs[0].channel', message: 'must be at most 16' },
-				{ path: 'bindings[1].steps[0].target.rack', message: 'must be at most 4' }
+				{ path: 'bindings[1].steps[0].target.rack', message: 'must be at most 8' }
 			])
 		);
 	});
@@ -58,7 +58,7 @@ describe('parseMapping', () => {
 		[
 			'a guard on an unknown counter',
 			(m: any) => (m.bindings[0].steps.at(-1).guards[0].counter = 'x'),
-			'bindings[0].steps[10].guards[0].counter',
+			'bindings[0].steps[8].guards[0].counter',
 			/no counter called "x"/
 		],
 		[
@@ -89,12 +89,24 @@ describe('parseMapping', () => {
 			'an unknown effect',
 			(m: any) =>
 				(m.bindings[0].steps[0] = {
-					target: { kind: 'slot-effect', rack: 1, slot: 1 },
+					target: { kind: 'effect', rack: 1, position: 1 },
 					action: 'set',
 					value: 'chorus'
 				}),
 			'bindings[0].steps[0]',
 			/must be one of|not an effect/
+		],
+		[
+			'a rack the mapping does not declare',
+			(m: any) => (m.bindings[0].steps[1].target.rack = 5),
+			'bindings[0].steps[1].target.rack',
+			/rack 5 isn't declared: this mapping has 4 rack\(s\)/
+		],
+		[
+			'a chain of five effects',
+			(m: any) => (m.bindings[0].steps[1].value = ['echo', 'gate', 'echo', 'gate', 'echo']),
+			'bindings[0].steps[1]',
+			/list of 1 to 4 effects/
 		],
 		[
 			'a route set to 2',
@@ -126,7 +138,7 @@ describe('parseMapping', () => {
 		[
 			'five guards on one step',
 			(m: any) => (m.bindings[0].steps.at(-1).guards = Array(5).fill({ counter: 'held', op: '=', value: 1 })),
-			'bindings[0].steps[10].guards',
+			'bindings[0].steps[8].guards',
 			/at most 4/
 		]
 	])('refuses %s', (_, change, path, message) => {

@@ -61,6 +61,39 @@ describe('replay', () => {
 			expect(t.audible[0].start).toBe(1500);
 		});
 
+		it('moves a release to the next grid line too: press 130 → 250, release 260 → 375 (1/16 at 120 BPM)', () => {
+			const t = replay(quantized('1/16'), [press(130, 'p1'), release(260, 'p1')]);
+			expect(t.audible).toEqual([{ rack: 1, deck: 'A', start: 250, end: 375, startEvent: 0, endEvent: 1 }]);
+			expect(t.changes.filter((c) => c.event === 1).every((c) => c.t === 375)).toBe(true);
+		});
+
+		it('lets a binding release at once, never before its own press lands', () => {
+			const m = quantized('1/16');
+			const atOnce = { ...m, bindings: m.bindings.map((b) => ({ ...b, releaseAtOnce: true })) };
+			expect(replay(atOnce, [press(130, 'p1'), release(260, 'p1')]).audible[0]).toMatchObject({
+				start: 250,
+				end: 260
+			});
+			expect(replay(atOnce, [press(130, 'p1'), release(200, 'p1')]).audible[0]).toMatchObject({
+				start: 250,
+				end: 250
+			});
+		});
+
+		it('follows the tempo changes of the stored beat clock', () => {
+			// 120 BPM until 1000 ms (beat 2), then 60 BPM: a 1/4 line every 1000 ms from there.
+			const clock = {
+				zero: 0,
+				tempos: [
+					{ at: 0, bpm: 120 },
+					{ at: 1000, bpm: 60 }
+				]
+			};
+			const t = replay(quantized('1/4'), [press(900, 'p1'), press(1010, 'p2')], { clock });
+			expect(t.changes.find((c) => c.event === 0)!.t).toBe(1000);
+			expect(t.changes.find((c) => c.event === 1)!.t).toBe(2000);
+		});
+
 		it('lets a release that beats its own waiting press land right after it', () => {
 			const t = replay(quantized('1/4'), [press(1010, 'p1'), release(1100, 'p1')]);
 			expect(t.order).toEqual([0, 1]);

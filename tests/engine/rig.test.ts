@@ -79,8 +79,8 @@ describe('applyEvent: one event at a time (DESIGN.md §4.2)', () => {
 
 	it('steps run in list order: the later of two sets wins', () => {
 		const m = one([
-			{ target: { kind: 'rack-mode', rack: 1 }, action: 'set', value: 'focus' },
-			{ target: { kind: 'rack-mode', rack: 1 }, action: 'set', value: 'chain' },
+			{ target: { kind: 'effect', rack: 1, position: 2 }, action: 'set', value: 'echo' },
+			{ target: { kind: 'effect', rack: 1, position: 2 }, action: 'set', value: null },
 			{ target: { kind: 'rack-mix', rack: 1 }, action: 'set', value: 0.1 },
 			{ target: { kind: 'rack-mix', rack: 1 }, action: 'set', value: 0.9 }
 		]);
@@ -156,7 +156,7 @@ describe('isAudible (DESIGN.md §4.4)', () => {
 			on: true,
 			mix: 1,
 			routes: { ...s.racks[0].routes, A: true },
-			slots: s.racks[0].slots.map((x, i) => (i === 1 ? { ...x, effect: 'echo' as const, on: true } : x))
+			chain: s.racks[0].chain.map((x, i) => (i === 1 ? { ...x, effect: 'echo' as const, on: true } : x))
 		};
 		return { ...s, racks: [rack, ...s.racks.slice(1)] };
 	};
@@ -166,7 +166,7 @@ describe('isAudible (DESIGN.md §4.4)', () => {
 		return s;
 	};
 
-	it('is audible when on, routed, playing, mixed in and a chain slot is on with an effect', () => {
+	it('is audible when on, routed, playing, mixed in and a chain position is on with an effect', () => {
 		expect(isAudible(base(), 1, 'A')).toBe(true);
 	});
 
@@ -175,16 +175,16 @@ describe('isAudible (DESIGN.md §4.4)', () => {
 		['the rack is not routed to the deck', (s: ReturnType<typeof base>) => (s.racks[0].routes.A = false)],
 		['the deck is not playing', (s: ReturnType<typeof base>) => (s.decks.A.playing = false)],
 		['the mix is 0', (s: ReturnType<typeof base>) => (s.racks[0].mix = 0)],
-		['no chain slot is on with an effect', (s: ReturnType<typeof base>) => (s.racks[0].slots[1].on = false)],
-		['focus mode and slot 1 has no effect', (s: ReturnType<typeof base>) => (s.racks[0].mode = 'focus')]
+		['no chain position is on with an effect', (s: ReturnType<typeof base>) => (s.racks[0].chain[1].on = false)],
+		['the only position on has no effect', (s: ReturnType<typeof base>) => (s.racks[0].chain[1].effect = null)]
 	])('is silent when %s', (_, f) => {
 		expect(isAudible(tweak(f), 1, 'A')).toBe(false);
 	});
 
-	it('in focus mode plays slot 1 when it is chosen and on', () => {
+	it('counts any position of the chain, the last one too', () => {
 		const s = tweak((x) => {
-			x.racks[0].mode = 'focus';
-			x.racks[0].slots[0] = { effect: 'gate', on: true, amount: 0.5 };
+			x.racks[0].chain[1].on = false;
+			x.racks[0].chain[3] = { effect: 'gate', on: true, params: [0.5, 0.5, 0.5] };
 		});
 		expect(isAudible(s, 1, 'A')).toBe(true);
 		expect(isAudible(s, 1, 'B')).toBe(false);

@@ -180,7 +180,13 @@ describe('import', () => {
 					for (const [at, b] of edits) if (at < bytes.length) bytes[at] = b;
 					const r = importSessionMidi(bytes);
 					if (!r.ok) expect(r.error.length).toBeGreaterThan(10);
-					else expect(Array.isArray(r.notes)).toBe(true);
+					else
+						r.notes.forEach((n, i) => {
+							// Times never run backwards and every data byte stays in MIDI 1.0's 0–127.
+							if (i > 0) expect(n.t).toBeGreaterThanOrEqual(r.notes[i - 1].t);
+							expect(n.number).toBeLessThanOrEqual(127);
+							expect(n.channel).toBeGreaterThanOrEqual(1);
+						});
 				}
 			),
 			{ numRuns: 1000 }

@@ -1,7 +1,7 @@
 // Findings over a replay (DESIGN.md §4.6). The state rules live in watch.ts; this module times
 // them: a finding opens at the event after which its condition first holds (that event is its
 // cause) and closes at the event after which it no longer does (end null if it lasts to the end).
-// Clamps and clashes are instant findings at their event. Each finding says in plain words which
+// Count overflows, clashes and takeovers are instant findings at their event. Each finding says in plain words which
 // press or release did what, e.g. "release of Pad 13 at 12.438 s turned rack 2 off while Pad 14
 // was held".
 import { runEvents, type ReplayOptions } from './replay';
@@ -11,9 +11,11 @@ import {
 	initialWatch,
 	inputName,
 	observe,
+	rackBits,
 	rulesFor,
-	touchedRacks,
+	takeovers,
 	type Condition,
+	type Takeover,
 	type Rules,
 	type WatchState
 } from './watch';
@@ -79,9 +81,9 @@ function message(
 		const deck = u.deck ?? 'A';
 		return `${by} left ${u.name} silent on deck ${deck} ${was}: ${whySilent(s, u.racks[0], deck)}`;
 	}
-	if (c.kind === 'stuck')
+	if (c.kind === 'stuck-on')
 		return `${by} left no pad of ${rules.units[c.unit].name} held, yet rack ${c.rack} stays audible on deck ${c.deck}`;
-	if (c.kind === 'leak') {
+	if (c.kind === 'bleed') {
 		const b = rules.bindings[c.binding!];
 		return `${by} left rack ${c.rack} audible on deck ${c.deck}, but ${b.label ?? inputName(m, b.input)} targets deck ${b.deck}`;
 	}
@@ -103,6 +105,13 @@ function clashMessage(m: Mapping, rules: Rules, e: InputEvent, at: number): stri
 		: 'its address';
 	const who = others[0] === e.input ? 'two bindings of this pad' : list(others.map((o) => inputName(m, o)));
 	return `${cause(m, e, at)} sounded ${addr}, which ${who} also answer${others.length > 1 || others[0] === e.input ? '' : 's'}`;
+}
+
+function takeoverMessage(m: Mapping, e: InputEvent, at: number, t: Takeover): string {
+	const holder = m.bindings[t.holder];
+	const by = m.bindings[t.by];
+	const name = (b: typeof holder) => b.label ?? inputName(m, b.input);
+	return `${cause(m, e, at)} changed rack ${t.rack} while ${name(holder)} held it on (latched): ${name(by)} took over ${name(holder)}'s effect`;
 }
 
 const blank = { binding: null, input: null, deck: null, rack: null, counter: null } as const;
@@ -149,7 +158,7 @@ export function analyze(mapping: Mapping, events: readonly InputEvent[], options
 			}
 			for (const cl of result.clamps)
 				findings.push({
-					kind: 'clamp',
+					kind: 'count-overflow',
 					start: at,
 					end: at,
 					event: index,
@@ -160,7 +169,20 @@ export function analyze(mapping: Mapping, events: readonly InputEvent[], options
 					message: clampMessage(mapping, e, cl)
 				});
 			const seen = watch;
-			watch = observe(rules, watch, e.input, e.type, touchedRacks(result.changes));
+			const bits = rackBits(result.changes);
+			for (const t of takeovers(rules, watch, e.input, e.type, bits.reshaped))
+				findings.push({
+					kind: 'takeover',
+					start: at,
+					end: at,
+					event: index,
+					...blank,
+					input: e.input,
+					binding: t.by,
+					rack: t.rack,
+					message: takeoverMessage(mapping, e, at, t)
+				});
+			watch = observe(rules, watch, e.input, e.type, result.setUp, result.state, bits.reshaped);
 			// Same state and same watch: the same conditions hold, nothing opens or closes.
 			if (!result.changes.length && watch === seen) return;
 			const now = conditions(rules, result.state, watch);

@@ -3,7 +3,7 @@
 // index, every clamp, and the audible intervals per rack × deck. Deterministic: the same mapping
 // and events give the same timeline, byte for byte once serialized.
 import { applyEvent, initialRigState, isAudible } from './rig';
-import { clockFor, scheduleEvents } from './schedule';
+import { clockFor, scheduleEvents, type Clock } from './schedule';
 import {
 	DECK_IDS,
 	MAX_RACKS,
@@ -16,9 +16,10 @@ import {
 } from './types';
 
 export interface ReplayOptions {
-	tempo?: number; // BPM of the beat clock; default the mapping's tempo, else 120
-	origin?: number; // session time of the first beat, default 0
-	from?: RigState;
+	clock?: Clock; // the session's beat clock (zero and tempo changes); wins over tempo and origin
+	tempo?: number; // BPM of a constant beat clock; default the mapping's tempo, else 120
+	origin?: number; // session time of its first beat, default 0
+	from?: RigState; // the rig as it stood when the events began; default the starting rig
 }
 
 export type StepVisitor = (result: StepResult, before: RigState, index: number, at: number) => void;
@@ -30,7 +31,7 @@ export function runEvents(
 	options: ReplayOptions,
 	visit: StepVisitor
 ): RigState {
-	const clock = clockFor(mapping, options.tempo, options.origin);
+	const clock = options.clock ?? clockFor(mapping, options.tempo, options.origin);
 	let state = options.from ?? initialRigState(mapping);
 	for (const { index, at } of scheduleEvents(mapping, events, clock)) {
 		const e = events[index];

@@ -307,17 +307,21 @@ function nextHeld(held: string[], event: InputEvent): string[] {
 export function applyEvent(mapping: Mapping, state: RigState, event: InputEvent, index: number): StepResult {
 	const steps = compileMapping(mapping).stepsByInput.get(event.input);
 	const d = new Draft(state, event.t, index);
+	let setUp = 0;
 	if (steps) {
 		const snapshot = state.counters;
 		for (let k = 0; k < steps.length; k++) {
 			const step = steps[k];
 			if (step.guards.length && !guardsHold(step, snapshot)) continue;
+			// A knob turn changes values but never who set a rack up (DESIGN.md §4.6).
+			if (step.rack >= 0 && event.type !== 'turn' && stepValue(step, event.type, undefined) !== undefined)
+				setUp |= 1 << step.rack;
 			runStep(d, step, event.type, event.value);
 		}
 	}
 	const held = nextHeld(state.held, event);
 	if (held !== state.held) d.record('held', state.held, held);
-	return { state: d.finish(held), changes: d.changes, clamps: d.clamps };
+	return { state: d.finish(held), changes: d.changes, clamps: d.clamps, setUp };
 }
 
 /** Fold a list of events through `applyEvent` (no timing, no quantize): handy for tests and tools. */

@@ -1,30 +1,29 @@
 // When an input event's changes land (DESIGN.md §4.5). Shared by replay and the rig actor so
-// quantized engage is decided in one place. A press on a quantized binding waits for the next grid
-// line of the rig's beat clock; a release runs at once unless its own press is still waiting, in
-// which case it lands right after that press (never before it). Turns are never quantized.
+// quantized timing is decided in one place. On a quantized binding a press waits for the next grid
+// line of the beat clock, and so does its release, unless the binding says its release acts at
+// once; either way a release never lands before its own press (it lands right after it). Turns are
+// never quantized.
 import { compileMapping } from './compile';
-import { nextGridLine } from './effects';
+import { constantClock, gridLine, type Clock } from './clock';
 import type { InputEvent, Mapping } from './types';
 
-export interface Clock {
-	tempo: number; // BPM
-	origin: number; // session time (ms) of the beat clock's first beat
-}
+export type { Clock } from './clock';
 
 export const DEFAULT_TEMPO = 120;
 
-export function clockFor(mapping: Mapping, tempo?: number, origin = 0): Clock {
-	return { tempo: tempo ?? mapping.tempo ?? DEFAULT_TEMPO, origin };
+/** A constant-tempo clock: the given tempo, else the mapping's, else 120 BPM; beat 0 at `zero`. */
+export function clockFor(mapping: Mapping, tempo?: number, zero = 0): Clock {
+	return constantClock(tempo ?? mapping.tempo ?? DEFAULT_TEMPO, zero);
 }
 
 /** `lastPressAt`: when the latest press of this input lands (or landed). */
 export function engageAt(mapping: Mapping, event: InputEvent, clock: Clock, lastPressAt: number | undefined): number {
-	if (event.type === 'press') {
-		const q = compileMapping(mapping).quantizeByInput.get(event.input);
-		return q ? nextGridLine(event.t, q, clock.tempo, clock.origin) : event.t;
-	}
-	if (event.type === 'release' && lastPressAt !== undefined && lastPressAt > event.t) return lastPressAt;
-	return event.t;
+	if (event.type === 'turn') return event.t;
+	const c = compileMapping(mapping);
+	const q = c.quantizeByInput.get(event.input);
+	if (event.type === 'press') return q ? gridLine(clock, event.t, q) : event.t;
+	const at = q && !c.releaseAtOnce.has(event.input) ? gridLine(clock, event.t, q) : event.t;
+	return lastPressAt !== undefined && lastPressAt > at ? lastPressAt : at;
 }
 
 export interface Scheduled {

@@ -191,6 +191,8 @@ export interface StepResult {
 	state: RigState;
 	changes: RigChange[];
 	clamps: Clamp[];
+	/** Bit per rack (0-based) that a press or release ran a step on: that binding set the rack up now. */
+	setUp: number;
 }
 
 /** One stretch of time in which a rack is audible on a deck (DESIGN.md §4.4). */
@@ -212,7 +214,15 @@ export interface Timeline {
 	order: number[];
 }
 
-export const FINDING_KINDS = ['dropout', 'stuck', 'leak', 'clash', 'drift', 'clamp'] as const;
+export const FINDING_KINDS = [
+	'dropout',
+	'stuck-on',
+	'bleed',
+	'clash',
+	'count-left-over',
+	'count-overflow',
+	'takeover'
+] as const;
 export type FindingKind = (typeof FINDING_KINDS)[number];
 
 export interface Finding {

@@ -199,5 +199,19 @@ export function upgradeNotes(m: MappingV1): string[] {
 				`rack ${r} switched between one effect (focus) and several (chain) in version 1; check its pads after the upgrade`
 			);
 	}
+	// A mode step sets its rack up; when nothing else on that rack runs with it, version 2 has no step left to.
+	m.bindings.forEach((b, i) => {
+		const alone = b.steps.some((s) => {
+			if (s.target.kind !== 'rack-mode' || s.value !== 'chain') return false;
+			const rack = s.target.rack;
+			return !b.steps.some(
+				(o) => o !== s && 'rack' in o.target && o.target.rack === rack && o.target.kind !== 'rack-mode' && sameRun(o, s)
+			);
+		});
+		if (alone)
+			notes.push(
+				`binding ${i + 1} (${b.label ?? b.input}) switches a rack's mode with no other step on it, which version 2 no longer has`
+			);
+	});
 	return notes;
 }

@@ -2,15 +2,18 @@
 // timed findings over a replay and `verifyGroup` checks them at every explored state, so both read
 // the same rules from here. A while-held binding belongs to a unit: its legato group (or its input
 // alone) on its target deck, with the racks its steps switch on.
-//   dropout  a pad of the unit is held, yet none of its racks is audible on its deck;
-//   stuck    no pad of the unit is held (after it was played), yet one of its racks is audible on
+//   dropout    a pad of the unit is held, yet none of its racks is audible on its deck;
+//   stuck-on   no pad of the unit is held (after it was played), yet one of its racks is audible on
 //            its deck, the unit's own pads set that rack up last, and no held while-held pad or
 //            latched pad is the reason;
-//   leak     a rack is audible on a deck other than the deck of the binding that last set it up;
-//   drift    no pad that counts a counter is held, yet the counter is off its rest value.
-// Clash and clamp are events, not states: `clashInputs` and the clamps applyEvent returns.
+//   bleed      a rack is audible on a deck other than the deck of the binding that last set it up;
+//   count-left-over  no pad that counts a counter is held, yet the counter is off its rest value.
+// Clash, count overflow and takeover are events, not states: `clashInputs`, the clamps applyEvent
+// returns, and `takeovers` (another pad changes the chain, routing or on/off of a rack a latched
+// pad holds on; a binding with `takeover: true` may). Knob and fader turns change values but never
+// who set a rack up or holds it (DESIGN.md §4.6), so they neither hide nor end a finding.
 import { isAudible } from './rig';
-import { DECK_IDS, MAX_RACKS, type Binding, type DeckId, type Mapping, type RigState } from './types';
+import { DECK_IDS, MAX_RACKS, type Binding, type DeckId, type Mapping, type RigChange, type RigState } from './types';
 
 export interface Unit {
 	key: string;
@@ -34,16 +37,26 @@ export interface Rules {
 	clashInputs: Map<string, string[]>; // input → the other inputs on its MIDI address
 	addressOf: Map<string, string>;
 	bindings: Binding[];
+	/** Per binding: a code equal for bindings the finding rules cannot tell apart as a rack's setter. */
+	ownerCode: number[];
 }
 
 /** Mutable per-run facts the rig state doesn't hold. */
 export interface WatchState {
 	used: Uint8Array; // per unit: played at least once
 	toucher: Int32Array; // per rack: binding index that last changed it, -1 none
+	latched: Int32Array; // per rack: the latched binding holding it on, -1 none
+}
+
+/** Another pad changed a rack a latched pad holds on. Binding indexes. */
+export interface Takeover {
+	rack: number; // 1-based
+	holder: number;
+	by: number;
 }
 
 export interface Condition {
-	kind: 'dropout' | 'stuck' | 'leak' | 'drift';
+	kind: 'dropout' | 'stuck-on' | 'bleed' | 'count-left-over';
 	key: string;
 	unit: number; // -1 when not about a unit
 	rack: number | null; // 1-based
@@ -60,7 +73,8 @@ export function rulesFor(mapping: Mapping): Rules {
 	return r;
 }
 
-function racksOf(b: Binding): number[] {
+/** Which racks a binding drives: those it switches on, else every rack it has a step on (1-based). */
+export function racksOf(b: Binding): number[] {
 	const on = new Set<number>();
 	const any = new Set<number>();
 	for (const s of b.steps)
@@ -152,6 +166,13 @@ function buildRules(m: Mapping): Rules {
 	const perInput = new Map<string, number>();
 	for (const b of m.bindings) perInput.set(b.input, (perInput.get(b.input) ?? 0) + 1);
 	for (const [id, n] of perInput) if (n > 1 && !clashInputs.has(id)) clashInputs.set(id, [id]);
+	// What the rules read of a rack's setter: its deck (bleed), whether it latches (stuck-on), the
+	// units its input belongs to (stuck-on), whether it may take over (takeover).
+	const codes = new Map<string, number>();
+	const ownerCode = m.bindings.map((b) => {
+		const key = [b.deck ?? '', b.intent ?? '', b.takeover ? 1 : 0, ...(unitsByInput.get(b.input) ?? [])].join('|');
+		return codes.get(key) ?? codes.set(key, codes.size + 1).get(key)!;
+	});
 	return {
 		decks: DECK_IDS.slice(0, m.decks),
 		units,
@@ -162,41 +183,101 @@ function buildRules(m: Mapping): Rules {
 		rest: new Map(m.counters.map((c) => [c.id, c.rest])),
 		clashInputs,
 		addressOf,
-		bindings: m.bindings
+		bindings: m.bindings,
+		ownerCode
 	};
 }
 
 export function initialWatch(rules: Rules): WatchState {
-	return { used: new Uint8Array(rules.units.length), toucher: new Int32Array(MAX_RACKS).fill(-1) };
+	return {
+		used: new Uint8Array(rules.units.length),
+		toucher: new Int32Array(MAX_RACKS).fill(-1),
+		latched: new Int32Array(MAX_RACKS).fill(-1)
+	};
 }
 
 function isUsed(this: WatchState, u: number): boolean {
 	return this.used[u] === 1;
 }
 
-/** Record what one applied event means for the watch: units played, who last set up each rack. */
-export function observe(rules: Rules, w: WatchState, input: string, type: string, touched: number): WatchState {
+/**
+ * Record what one applied event means for the watch: units played, who last set up each rack and
+ * which latched pad holds it on. `touched` and `reshaped` are rack bits (`rackBits`); `s` the state
+ * after the event. A turn changes values only: it never changes who owns a rack.
+ */
+export function observe(
+	rules: Rules,
+	w: WatchState,
+	input: string,
+	type: string,
+	touched: number,
+	s: RigState,
+	reshaped = touched
+): WatchState {
 	const units = type === 'press' ? rules.unitsByInput.get(input) : undefined;
 	let next = w;
 	if (units && !units.every(isUsed, w)) {
-		next = { used: w.used.slice(), toucher: w.toucher };
+		next = { ...w, used: w.used.slice() };
 		for (const u of units) next.used[u] = 1;
 	}
+	if (type === 'turn' || !touched) return next;
 	for (let r = 0; r < MAX_RACKS; r++) {
 		if (!(touched & (1 << r))) continue;
 		const b = rules.touchers[r].get(input);
-		if (b === undefined || next.toucher[r] === b) continue;
-		if (next.toucher === w.toucher) next = { used: next.used, toucher: w.toucher.slice() };
-		next.toucher[r] = b;
+		if (b === undefined) continue;
+		if (next.toucher[r] !== b) {
+			if (next.toucher === w.toucher) next = { ...next, toucher: w.toucher.slice() };
+			next.toucher[r] = b;
+		}
+		const on = s.racks[r]?.on ?? false;
+		const holder = next.latched[r];
+		const want =
+			rules.bindings[b].intent === 'latched' && on
+				? b
+				: !on || (holder >= 0 && reshaped & (1 << r) && rules.bindings[holder].input !== input)
+					? -1
+					: holder;
+		if (want !== holder) {
+			if (next.latched === w.latched) next = { ...next, latched: w.latched.slice() };
+			next.latched[r] = want;
+		}
 	}
 	return next;
 }
 
-/** Bit per rack (0-based) that a change list touched. */
-export function touchedRacks(changes: { path: string }[]): number {
-	let bits = 0;
-	for (const c of changes) if (c.path.startsWith('racks.')) bits |= 1 << Number(c.path[6]);
-	return bits;
+/** Takeovers by one event: read with the watch as it stood before the event (DESIGN.md §4.6). */
+export function takeovers(rules: Rules, w: WatchState, input: string, type: string, reshaped: number): Takeover[] {
+	if (type === 'turn' || !reshaped) return NONE;
+	let out: Takeover[] = NONE;
+	for (let r = 0; r < MAX_RACKS; r++) {
+		const holder = w.latched[r];
+		if (holder < 0 || !(reshaped & (1 << r)) || rules.bindings[holder].input === input) continue;
+		const by = rules.touchers[r].get(input);
+		if (by === undefined || rules.bindings[by].takeover) continue;
+		if (out === NONE) out = [];
+		out.push({ rack: r + 1, holder, by });
+	}
+	return out;
+}
+
+const NONE: Takeover[] = [];
+
+/**
+ * Bits per rack (0-based) that a change list touched, and of those the racks whose chain, routing
+ * or on/off changed (what a takeover is about); mix and parameter values only touch.
+ */
+export function rackBits(changes: RigChange[]): { touched: number; reshaped: number } {
+	let touched = 0;
+	let reshaped = 0;
+	for (let i = 0; i < changes.length; i++) {
+		const p = changes[i].path;
+		if (!p.startsWith('racks.')) continue;
+		const bit = 1 << Number(p[6]);
+		touched |= bit;
+		// racks.N.on, racks.N.routes.X, racks.N.chain.P.effect|on — not .mix or .params.K
+		if (p.endsWith('.on') || p.startsWith('routes', 8) || p.endsWith('.effect')) reshaped |= bit;
+	}
+	return { touched, reshaped };
 }
 
 // Plain loops below: this runs for every event of a replay and every edge of the verifier.
@@ -236,8 +317,8 @@ export function conditions(rules: Rules, s: RigState, w: WatchState): Condition[
 			for (const r of u.racks) {
 				if (!isAudible(s, r, d) || !setUpBy(rules, w, r, u) || claimed(rules, s, w, r, d)) continue;
 				out.push({
-					kind: 'stuck',
-					key: `stuck|${u.key}|${r}|${d}`,
+					kind: 'stuck-on',
+					key: `stuck-on|${u.key}|${r}|${d}`,
 					unit: ui,
 					rack: r,
 					deck: d,
@@ -252,12 +333,20 @@ export function conditions(rules: Rules, s: RigState, w: WatchState): Condition[
 		if (!target) continue;
 		for (const d of rules.decks)
 			if (d !== target && isAudible(s, r, d))
-				out.push({ kind: 'leak', key: `leak|${r}|${d}`, unit: -1, rack: r, deck: d, counter: null, binding: b });
+				out.push({ kind: 'bleed', key: `bleed|${r}|${d}`, unit: -1, rack: r, deck: d, counter: null, binding: b });
 	}
 	for (const [c, inputs] of rules.countingInputs) {
 		const v = s.counters[c];
 		if (v !== undefined && v !== rules.rest.get(c) && !heldAny(s.held, inputs))
-			out.push({ kind: 'drift', key: `drift|${c}`, unit: -1, rack: null, deck: null, counter: c, binding: null });
+			out.push({
+				kind: 'count-left-over',
+				key: `count-left-over|${c}`,
+				unit: -1,
+				rack: null,
+				deck: null,
+				counter: c,
+				binding: null
+			});
 	}
 	return out;
 }

@@ -9,11 +9,17 @@ import {
 	initialWatch,
 	inputName,
 	observe,
+	rackBits,
 	rulesFor,
-	touchedRacks,
+	takeovers,
 	type WatchState
 } from '$lib/engine/watch';
-import type { Clock } from '$lib/engine';
+
+/** The room's beat clock as the live findings read it: a constant tempo from `origin`. */
+export interface RoomTempo {
+	tempo: number;
+	origin: number;
+}
 
 export interface LiveFinding extends Finding {
 	/** Who the finding is about, in the mapping's words: the binding's label, else the pad's. */
@@ -47,14 +53,16 @@ export class LiveFindings {
 	}
 
 	/** Follows one landed event; `landed` are the events applied so far, in their received order. */
-	follow(emitted: RigChangesEmitted, event: InputEvent, landed: () => readonly InputEvent[], clock: Clock): void {
+	follow(emitted: RigChangesEmitted, event: InputEvent, landed: () => readonly InputEvent[], clock: RoomTempo): void {
 		const rules = rulesFor(this.#mapping);
-		this.#watch = observe(rules, this.#watch, event.input, event.type, touchedRacks(emitted.changes));
+		const bits = rackBits(emitted.changes);
+		const took = takeovers(rules, this.#watch, event.input, event.type, bits.reshaped).length > 0;
+		this.#watch = observe(rules, this.#watch, event.input, event.type, emitted.setUp, emitted.state, bits.reshaped);
 		const keys = conditions(rules, emitted.state, this.#watch)
 			.map((c) => c.key)
 			.join('\n');
 		const clash = event.type === 'press' && rules.clashInputs.has(event.input);
-		if (keys === this.#keys && !emitted.clamps.length && !clash) return;
+		if (keys === this.#keys && !emitted.clamps.length && !clash && !took) return;
 		this.#keys = keys;
 		this.#analyses++;
 		this.all = analyze(this.#mapping, landed(), { tempo: clock.tempo, origin: clock.origin }).map((f) => ({

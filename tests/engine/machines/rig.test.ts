@@ -51,6 +51,42 @@ describe('rig actor', () => {
 		expect(seen[0]).toBeCloseTo(1088.71, 2);
 	});
 
+	it('waits for the grid line before a quantized release too, as replay does', () => {
+		// 1/16 at 120 BPM = 125 ms (REFERENCES.md): press 130 → 250, release 260 → 375 (DESIGN.md §4.5).
+		const m = { ...legatoMapping(2), tempo: 120 };
+		const q = { ...m, bindings: m.bindings.map((b) => ({ ...b, quantize: '1/16' as const })) };
+		const clock = new SimulatedClock();
+		const live = createActor(rigMachine, { input: { mapping: q }, clock }).start();
+		const seen: [number, number][] = [];
+		live.on('changes', (e) => seen.push([e.index, e.at]));
+		clock.set(130);
+		live.send({ type: 'input', event: press(130, 'p1') });
+		clock.set(260);
+		live.send({ type: 'input', event: release(260, 'p1') });
+		expect(live.getSnapshot().context.state.racks[0].on).toBe(true);
+		clock.set(374);
+		expect(live.getSnapshot().context.state.racks[0].on).toBe(true);
+		clock.set(375);
+		expect(live.getSnapshot().context.state.racks[0].on).toBe(false);
+		expect(seen).toEqual([
+			[0, 250],
+			[1, 375]
+		]);
+	});
+
+	it('keeps the beat across a tempo change given with its time', () => {
+		const clock = new SimulatedClock();
+		const live = createActor(rigMachine, { input: { mapping: quantized('1/8'), tempo: 120 }, clock }).start();
+		live.send({ type: 'tempo', bpm: 60, at: 1000 });
+		expect(live.getSnapshot().context.clock).toEqual({
+			zero: 0,
+			tempos: [
+				{ at: 0, bpm: 120 },
+				{ at: 1000, bpm: 60 }
+			]
+		});
+	});
+
 	it('follows a tempo change and resets to the starting rig', () => {
 		const clock = new SimulatedClock();
 		const live = createActor(rigMachine, { input: { mapping: quantized('1/8') }, clock }).start();

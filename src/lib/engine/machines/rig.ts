@@ -6,6 +6,7 @@
 // Each applied event is announced with an emitted `changes` event (subscribe with `actor.on`).
 import { enqueueActions, setup } from 'xstate';
 import { applyEvent, initialRigState } from '../rig';
+import { constantClock, withTempo } from '../clock';
 import { clockFor, engageAt, type Clock } from '../schedule';
 import type { Clamp, InputEvent, Mapping, RigChange, RigState } from '../types';
 
@@ -27,7 +28,9 @@ export interface RigContext {
 export type RigActorEvent =
 	| { type: 'input'; event: InputEvent; index?: number }
 	| { type: 'engage'; at: number }
-	| { type: 'tempo'; bpm: number; origin?: number }
+	// With `at`: the tempo changes at that time, the beat kept where it is (a tempo history the
+	// recorder stores). Without: a constant clock from beat 0 at `origin` (default: where it was).
+	| { type: 'tempo'; bpm: number; origin?: number; at?: number }
 	| { type: 'reset' };
 
 export interface RigChangesEmitted {
@@ -36,6 +39,7 @@ export interface RigChangesEmitted {
 	at: number;
 	changes: RigChange[];
 	clamps: Clamp[];
+	setUp: number; // racks this event set up (StepResult.setUp)
 	state: RigState;
 }
 
@@ -43,6 +47,8 @@ export interface RigActorInput {
 	mapping: Mapping;
 	tempo?: number;
 	origin?: number; // session time of the beat clock's first beat
+	clock?: Clock; // a whole beat clock, tempo changes included (wins over tempo and origin)
+	from?: RigState; // the rig to start from (a replay of a take that began mid-play)
 }
 
 type Emit = (e: RigChangesEmitted) => void;
@@ -61,7 +67,15 @@ function landDue(ctx: RigContext, now: number, emit: Emit): { state: RigState; p
 function land(mapping: Mapping, state: RigState, p: Pending, emit: Emit): RigState {
 	const e = p.at === p.event.t ? p.event : { ...p.event, t: p.at };
 	const r = applyEvent(mapping, state, e, p.index);
-	emit({ type: 'changes', index: p.index, at: p.at, changes: r.changes, clamps: r.clamps, state: r.state });
+	emit({
+		type: 'changes',
+		index: p.index,
+		at: p.at,
+		changes: r.changes,
+		clamps: r.clamps,
+		setUp: r.setUp,
+		state: r.state
+	});
 	return r.state;
 }
 
@@ -106,7 +120,11 @@ export const rigMachine = setup({
 		}),
 		retime: enqueueActions(({ context, event, enqueue }) => {
 			if (event.type !== 'tempo') return;
-			enqueue.assign({ clock: { tempo: event.bpm, origin: event.origin ?? context.clock.origin } });
+			const clock =
+				event.at !== undefined
+					? withTempo(context.clock, event.bpm, event.at)
+					: constantClock(event.bpm, event.origin ?? context.clock.zero);
+			enqueue.assign({ clock });
 		}),
 		reset: enqueueActions(({ context, enqueue }) => {
 			enqueue.assign({ state: initialRigState(context.mapping), pending: [], lastPressAt: {}, nextIndex: 0 });
@@ -116,8 +134,8 @@ export const rigMachine = setup({
 	id: 'rig',
 	context: ({ input }) => ({
 		mapping: input.mapping,
-		state: initialRigState(input.mapping),
-		clock: clockFor(input.mapping, input.tempo, input.origin),
+		state: input.from ?? initialRigState(input.mapping),
+		clock: input.clock ?? clockFor(input.mapping, input.tempo, input.origin),
 		nextIndex: 0,
 		pending: [],
 		lastPressAt: {}
