@@ -324,11 +324,9 @@ describe('percentiles and clock', () => {
 	});
 
 	it('reads a version 1 session as zero 0 and a version 2 clock as stored', () => {
-		expect(sessionClock(session([]))).toEqual({ zero: 0, tempo: 120 });
-		expect(sessionClock(session([], { clock: { zero: 2000, tempos: [{ at: 0, bpm: 128 }] } }))).toEqual({
-			zero: 2000,
-			tempo: 128
-		});
+		expect(sessionClock(session([]))).toEqual({ zero: 0, tempos: [{ at: 0, bpm: 120 }] });
+		const clock = { zero: 2000, tempos: [{ at: 0, bpm: 128 }] };
+		expect(sessionClock(session([], { clock }))).toEqual(clock);
 	});
 
 	it('measures each press held until its release', () => {

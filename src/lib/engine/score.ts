@@ -13,6 +13,7 @@
 // finds it exactly (see matchTimes).
 import { z } from 'zod';
 import { analyze } from './analyze';
+import type { Clock } from './clock';
 import { toProblems, type Problem } from './mapping';
 import { sessionEvents } from './session';
 import type { Finding, InputEvent, Mapping, SessionDocument } from './types';
@@ -77,9 +78,11 @@ export function parseDrill(input: unknown): DrillResult {
  * The session's beat clock. Session documents version 2 store it (`clock.zero`, `clock.tempos`);
  * a version 1 session has none: its zero is time 0 and its tempo constant (DESIGN.md §4).
  */
-export function sessionClock(session: SessionDocument): { zero: number; tempo: number } {
-	const clock = (session as { clock?: { zero?: number; tempos?: { at: number; bpm: number }[] } }).clock;
-	return { zero: clock?.zero ?? 0, tempo: clock?.tempos?.[0]?.bpm ?? session.tempo };
+export function sessionClock(session: SessionDocument): Clock {
+	const stored = (session as { clock?: Partial<Clock> }).clock;
+	const zero = stored?.zero ?? 0;
+	const tempos = stored?.tempos?.length ? stored.tempos : [{ at: zero, bpm: session.tempo }];
+	return { zero, tempos };
 }
 
 /** Where a target sits on the session clock: zero + beat × 60000 / tempo, lasting beats × 60000 / tempo. */
@@ -293,13 +296,14 @@ export function scoreDrill(
 	session: SessionDocument,
 	found?: readonly Finding[]
 ): Score {
-	const { zero, tempo } = sessionClock(session);
+	const clock = sessionClock(session);
+	const zero = clock.zero;
 	const presses = sessionPresses(session);
 	const { outcomes, extraPresses } = matchDrill(drill, presses, zero);
 	const hitList = outcomes.filter((o) => o.errorMs !== null);
 	const errors = hitList.map((o) => o.errorMs!);
 	const abs = errors.map(Math.abs).sort((a, b) => a - b);
-	const findings = found ?? analyze(mapping, sessionEvents(session).events as InputEvent[], { tempo, origin: zero });
+	const findings = found ?? analyze(mapping, sessionEvents(session).events as InputEvent[], { clock });
 	const findingKinds: Record<string, number> = {};
 	for (const f of findings) findingKinds[f.kind] = (findingKinds[f.kind] ?? 0) + 1;
 	const hits = hitList.length;

@@ -133,7 +133,7 @@ function checkStored(doc: unknown): DrillDocument {
 export function scoreTake(d: DrillDocument, m: Mapping, session: SessionDocument, zero: number) {
 	const withClock = (session as { clock?: unknown }).clock
 		? session
-		: ({ ...session, clock: { zero, tempos: [{ at: 0, bpm: session.tempo }] } } as SessionDocument);
+		: ({ ...session, clock: { zero, tempos: [{ at: zero, bpm: session.tempo }] } } as SessionDocument);
 	return scoreDrill(d, m, withClock);
 }
 
