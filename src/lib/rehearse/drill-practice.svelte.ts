@@ -45,10 +45,8 @@ export class DrillPractice {
 		return ['starting', 'counting', 'playing', 'scoring'].includes(this.status);
 	}
 
-	/** Beat 0's time on the performance clock (ms), for tests that play along. */
-	get zeroPerformance(): number {
-		return performance.now() - this.room.roomNow() + this.#zeroRoom;
-	}
+	/** Beat 0 of the current try on the performance clock (ms), for players that play along. */
+	zeroAt = $state<number | null>(null);
 
 	async start(): Promise<void> {
 		if (this.busy || this.room.recording) return;
@@ -76,6 +74,7 @@ export class DrillPractice {
 		const zeroBeat = first + countInBeats;
 		this.#zeroRoom = this.room.clock.timeOfBeat(zeroBeat);
 		this.#zeroRecording = this.room.recorder.elapsed() + (this.#zeroRoom - nowRoom);
+		this.zeroAt = performance.now() + (this.#zeroRoom - nowRoom);
 		this.room.sound.countIn(first, zeroBeat);
 		this.status = countInBeats > 0 ? 'counting' : 'playing';
 		this.#tick();
