@@ -121,7 +121,8 @@ test('the computer keyboard plays the pads, and refused MIDI is explained', asyn
 	await expect(page.getByTestId('rack-1')).toHaveAttribute('data-audible', 'A');
 	await expect(page.getByTestId('rack-1-route-A')).toHaveAttribute('data-routed', 'true');
 	await expect(page.getByTestId('rack-1-route-B')).toHaveAttribute('data-routed', 'false');
-	await expect(page.getByTestId('rack-1-mode')).toHaveText('focus');
+	await expect(page.getByTestId('rack-1-position-1')).toHaveAttribute('data-effect', 'echo');
+	await expect(page.getByTestId('rack-1-position-1-param-1')).toHaveText('1/8');
 	await page.keyboard.up('KeyZ');
 	await expect(page.getByTestId('rack-1')).toHaveAttribute('data-audible', 'none');
 

@@ -96,7 +96,7 @@ test('the replay places the dropout at the injected release and the jump highlig
 	await expect(causing).toContainText('Pad 13');
 	await expect(page.getByTestId('causing-mark')).toHaveAttribute('data-t', String(RELEASE_13));
 	await expect(page.getByTestId('rig-held')).toHaveText('Pad 14');
-	await expect(page.locator('[data-testid="rack-card"][data-rack="2"]')).toHaveAttribute('data-on', 'false');
+	await expect(page.getByTestId('rack-2')).toHaveAttribute('data-on', 'false');
 
 	// Zoomed in around the cursor a pixel is well under a millisecond, so the drawn edge is a measurement.
 	for (let i = 0; i < 3; i++) await page.getByTestId('zoom-in').click();

@@ -3,6 +3,7 @@
 import { expect, test, type Browser, type Page } from '@playwright/test';
 import wavefile from 'wavefile';
 import { paramForDivision } from '../src/lib/engine/effects';
+import { emptyPosition, loadedPosition } from '../src/lib/engine/rig';
 import { EFFECT_IDS, type EffectId, type RackState, type RigChange, type RigState } from '../src/lib/engine/types';
 import type { RenderSpec } from '../src/lib/audio/render';
 import * as M from '../src/lib/audio/measure';
@@ -52,31 +53,28 @@ function rack(patch: Partial<RackState> = {}): RackState {
 	return {
 		on: false,
 		mix: 0.5,
-		mode: 'chain',
-		slots: [0, 1, 2].map(() => ({ effect: null, on: false, amount: 0.5 })),
-		params: [0.5, 0.5, 0.5],
+		chain: [0, 1, 2, 3].map(emptyPosition),
 		routes: { A: false, B: false, C: false, D: false },
 		...patch
 	};
 }
 
-function focus(effect: EffectId, params: number[], patch: Partial<RackState> = {}): RackState {
-	const r = rack({
-		on: true,
-		mode: 'focus',
-		mix: 1,
-		params,
-		routes: { A: true, B: false, C: false, D: false },
-		...patch
-	});
-	r.slots[0] = { effect, on: true, amount: 0.5 };
+/** A rack on deck A whose chain holds `effects` in order, each with its own parameters. */
+function chained(effects: [EffectId, number[]][], patch: Partial<RackState> = {}): RackState {
+	const r = rack({ on: true, mix: 1, routes: { A: true, B: false, C: false, D: false }, ...patch });
+	effects.forEach(([effect, params], i) => (r.chain[i] = { ...loadedPosition(effect), params: [...params] }));
 	return r;
+}
+
+/** A one-effect chain with its three parameters. */
+function focus(effect: EffectId, params: number[], patch: Partial<RackState> = {}): RackState {
+	return chained([[effect, params]], patch);
 }
 
 function rig(first: RackState = rack()): RigState {
 	const playing = { playing: true };
 	return {
-		racks: [first, rack(), rack(), rack()],
+		racks: [first, rack()],
 		decks: { A: playing, B: playing, C: playing, D: playing },
 		counters: {},
 		held: []
@@ -243,25 +241,50 @@ for (const [effect, params, mix] of [
 	['stutter', [paramForDivision('stutter', 1, '1/16'), 0, 0], 0.5],
 	['filter', [0.1, 0.3, 0], 1]
 ] as const) {
-	test(`rack on and ${effect} slot on in one event: wet starts within one render quantum`, async () => {
+	test(`rack on and ${effect} position on in one event: wet starts within one render quantum`, async () => {
 		const start = focus(effect, [...params], { on: false, mix });
-		start.slots[0].on = false;
+		start.chain[0].on = false;
 		const changes: RigChange[] = [
 			{ t: 500, event: 0, path: 'racks.0.on', from: false, to: true },
-			{ t: 500, event: 0, path: 'racks.0.slots.0.on', from: false, to: true }
+			{ t: 500, event: 0, path: 'racks.0.chain.0.on', from: false, to: true }
 		];
 		const decks = { A: { samples: [noise(1), noise(1)] } };
 		const [on, off] = await Promise.all([
 			render({ seconds: 1, tempo: 120, tap: 'A', decks, state: rig(start), changes }),
 			render({ seconds: 1, tempo: 120, tap: 'A', decks, state: rig(start) })
 		]);
-		const scheduled = Math.round((0.5 + on.lookAhead) * RATE); // event time + the rig's fixed look-ahead
+		const scheduled = Math.round((0.5 + on.lookAhead) * RATE); // event time (+ look-ahead, 0 offline)
 		const first = M.firstAbove(M.difference(on.channels[0], off.channels[0]), 1e-4);
 		expect(first).toBeGreaterThanOrEqual(scheduled);
 		// Web Audio API §2.4: one render quantum is 128 frames.
 		expect(first - scheduled).toBeLessThan(QUANTUM);
 	});
 }
+
+test("a chain of two echoes plays both in series: the second repeats the first one's repeat", async () => {
+	// Position 1 echoes at 1/8, position 2 at 1/4, no feedback, tone fully open, all wet.
+	const eighth = paramForDivision('echo', 1, '1/8');
+	const quarter = paramForDivision('echo', 1, '1/4');
+	const both = chained([
+		['echo', [eighth, 0, 1]],
+		['echo', [quarter, 0, 1]]
+	]);
+	const second = chained([['echo', [quarter, 0, 1]]]);
+	const [two, one] = await Promise.all([
+		render({ seconds: 1.2, tempo: 120, tap: 'A', decks: click(0.1), state: rig(both) }),
+		render({ seconds: 1.2, tempo: 120, tap: 'A', decks: click(0.1), state: rig(second) })
+	]);
+	// Tempo arithmetic at 120 BPM: 1/8 = 250 ms, 1/4 = 500 ms. In series, with each echo keeping its
+	// input, the click at 100 ms comes out at 100, 350 (first echo), 600 (second) and 850 ms — the
+	// second echo of the first echo, which only a chain of both can make (±1 ms as for the echo).
+	const found = peaks(two.channels[0], 0.05, 5);
+	expect(found).toHaveLength(4);
+	found.forEach((i, k) => expect(Math.abs(ms(i) - [100, 350, 600, 850][k])).toBeLessThanOrEqual(1));
+	// The second echo alone answers once, 500 ms after the click, and nothing at 850 ms.
+	const alone = peaks(one.channels[0], 0.05, 3);
+	expect(alone).toHaveLength(1);
+	expect(Math.abs(ms(alone[0]) - 600)).toBeLessThanOrEqual(1);
+});
 
 test('the limiter keeps the peak at or below −1 dBFS for an input boosted by +12 dB', async () => {
 	const decks: RenderSpec['decks'] = { A: { loop: 'glass-steps', levelDb: 12 }, B: { loop: 'coil-run', levelDb: 12 } };
@@ -286,11 +309,7 @@ test('the master passes quiet signals unchanged below the limiter', async () => 
 
 test.describe('every catalog effect', () => {
 	const decks: RenderSpec['decks'] = { A: { loop: 'glass-steps' } };
-	const chain = (effect: EffectId, on: boolean) => {
-		const r = rack({ on, mix: 1, routes: { A: true, B: false, C: false, D: false } });
-		r.slots[0] = { effect, on: true, amount: 0.8 };
-		return rig(r);
-	};
+	const chain = (effect: EffectId, on: boolean) => rig(chained([[effect, loadedPosition(effect).params]], { on }));
 	let dry: Float32Array[] = [];
 
 	test.beforeAll(async () => {

@@ -5,20 +5,23 @@
 import { chromium } from '@playwright/test';
 import { serveHarness } from './audio-harness/serve';
 import type { RenderSpec } from '../../src/lib/audio/render';
-import { EFFECT_IDS, type EffectId, type RackState, type RigState } from '../../src/lib/engine/types';
+import { emptyPosition, loadedPosition } from '../../src/lib/engine/rig';
+import { CHAIN_MAX, EFFECT_IDS, type EffectId, type RackState, type RigState } from '../../src/lib/engine/types';
 
 const SECONDS = Number(process.argv[2] ?? 10);
 const ONLY = process.argv[3]; // a case name to profile alone
 const RUNS = Number(process.argv[4] ?? 3);
 
-function rack(deck: 'A' | 'B' | 'C' | 'D', mode: 'chain' | 'focus', effects: EffectId[]): RackState {
-	const slots = [0, 1, 2].map((i) => ({ effect: effects[i] ?? null, on: i < effects.length, amount: 0.6 }));
+function rack(deck: 'A' | 'B' | 'C' | 'D', effects: EffectId[]): RackState {
+	const chain = Array.from({ length: CHAIN_MAX }, (_, i) =>
+		effects[i] ? loadedPosition(effects[i]) : emptyPosition()
+	);
 	const routes = { A: false, B: false, C: false, D: false, [deck]: true };
-	return { on: true, mix: 0.5, mode, slots, params: [0.5, 0.5, 0.5], routes };
+	return { on: true, mix: 0.5, chain, routes };
 }
 
 const off = (): RackState => ({
-	...rack('A', 'chain', []),
+	...rack('A', []),
 	on: false,
 	routes: { A: false, B: false, C: false, D: false }
 });
@@ -38,14 +41,14 @@ const decks: RenderSpec['decks'] = {
 };
 const cases: [string, RigState][] = [
 	['decks only', rig([])],
-	...EFFECT_IDS.map((e): [string, RigState] => [e, rig([rack('A', 'chain', [e])])]),
+	...EFFECT_IDS.map((e): [string, RigState] => [e, rig([rack('A', [e])])]),
 	[
 		'bench rig',
 		rig([
-			rack('A', 'chain', ['filter', 'echo', 'flanger']),
-			rack('B', 'chain', ['gate', 'ping-pong', 'phaser']),
-			rack('C', 'focus', ['stutter']),
-			rack('D', 'chain', ['bitcrush', 'tape-echo', 'reverb'])
+			rack('A', ['filter', 'echo', 'flanger']),
+			rack('B', ['gate', 'ping-pong', 'phaser']),
+			rack('C', ['stutter']),
+			rack('D', ['bitcrush', 'tape-echo', 'reverb'])
 		])
 	]
 ];

@@ -1,28 +1,31 @@
 // audio.render_x_realtime: offline render speed in Chromium for four decks playing demo loops
-// with four racks routed (one per deck: chain of three, and focus effects), through the master.
+// with four racks routed (one per deck: chains of three effects and one of a single effect), through the master.
 // Serves the audio layer with an in-process Vite server (audio-harness/) and measures; it never
 // asserts a speed.
 import { chromium } from '@playwright/test';
 import type { Figure } from './run';
 import { serveHarness } from './audio-harness/serve';
 import type { RenderSpec } from '../../src/lib/audio/render';
-import type { EffectId, RackState, RigState } from '../../src/lib/engine/types';
+import { emptyPosition, loadedPosition } from '../../src/lib/engine/rig';
+import { CHAIN_MAX, type EffectId, type RackState, type RigState } from '../../src/lib/engine/types';
 
 const SECONDS = 30;
 
-function rack(deck: 'A' | 'B' | 'C' | 'D', mode: 'chain' | 'focus', effects: EffectId[]): RackState {
-	const slots = [0, 1, 2].map((i) => ({ effect: effects[i] ?? null, on: i < effects.length, amount: 0.6 }));
+function rack(deck: 'A' | 'B' | 'C' | 'D', effects: EffectId[]): RackState {
+	const chain = Array.from({ length: CHAIN_MAX }, (_, i) =>
+		effects[i] ? loadedPosition(effects[i]) : emptyPosition()
+	);
 	const routes = { A: false, B: false, C: false, D: false, [deck]: true };
-	return { on: true, mix: 0.5, mode, slots, params: [0.5, 0.5, 0.5], routes };
+	return { on: true, mix: 0.5, chain, routes };
 }
 
 const playing = { playing: true };
 const state: RigState = {
 	racks: [
-		rack('A', 'chain', ['filter', 'echo', 'flanger']),
-		rack('B', 'chain', ['gate', 'ping-pong', 'phaser']),
-		rack('C', 'focus', ['stutter']),
-		rack('D', 'chain', ['bitcrush', 'tape-echo', 'reverb'])
+		rack('A', ['filter', 'echo', 'flanger']),
+		rack('B', ['gate', 'ping-pong', 'phaser']),
+		rack('C', ['stutter']),
+		rack('D', ['bitcrush', 'tape-echo', 'reverb'])
 	],
 	decks: { A: playing, B: playing, C: playing, D: playing },
 	counters: {},

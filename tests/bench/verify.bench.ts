@@ -17,9 +17,10 @@ function row(n: number): Mapping {
 		decks: 2
 	});
 	return {
-		version: 1,
+		version: 2,
 		name: `legato ${n}`,
 		decks: 2,
+		racks: [{ id: 'row', label: 'Row' }],
 		profile: { name: 'grid', inputs: pads.map((id, i) => ({ id, kind: 'pad', channel: 1, note: 36 + i })) },
 		counters: [r.counter],
 		bindings: r.bindings

@@ -26,9 +26,9 @@ describe('compareFindings', () => {
 	});
 
 	it.each([
-		[['dropout', 'drift'], ['drift'], 'better'],
-		[['dropout'], ['leak'], 'same'],
-		[[], ['stuck'], 'worse'],
+		[['dropout', 'count-left-over'], ['count-left-over'], 'better'],
+		[['dropout'], ['bleed'], 'same'],
+		[[], ['stuck-on'], 'worse'],
 		[[], [], 'same']
 	] as const)('%j → %j is %s', (before, after, verdict) => {
 		expect(compareFindings(before.map(finding), after.map(finding)).verdict).toBe(verdict);

@@ -1,8 +1,8 @@
-// One deck: its source (a demo loop, or a test signal), play/stop, the four rack inserts in
-// series, and its level. Stopping ramps the source down before the inserts, so tails ring out.
+// One deck: its source (a demo loop, or a test signal), play/stop, one insert per declared rack
+// in series (rack 1 first; the mapping decides how many), and its level. Stopping ramps the source down before the inserts, so tails ring out.
 // Neighbouring inserts share one summing node: every node in the chain runs on every frame.
 import { Gain, ToneAudioBuffer, ToneBufferSource } from 'tone';
-import { RACK_COUNT, type DeckId } from '$lib/engine/types';
+import { MAX_RACKS, type DeckId } from '$lib/engine/types';
 import type { BeatClock } from './beat-clock';
 import { rampParam } from './effects/effect';
 import { LoopPlayer } from './loops/loop-player';
@@ -12,9 +12,9 @@ import { RACK_FADE, RackInsert } from './rack-insert';
 
 export class DeckChannel {
 	readonly output = new Gain(1);
-	readonly inserts: RackInsert[];
+	readonly inserts: RackInsert[] = [];
 	#play = new Gain(1); // sources sum here
-	#joints = Array.from({ length: RACK_COUNT - 1 }, () => new Gain(1));
+	#joints: Gain[] = []; // between neighbouring inserts
 	#loop: LoopPlayer | null = null;
 	#retired: LoopPlayer[] = [];
 	#probes: ToneBufferSource[] = [];
@@ -22,13 +22,25 @@ export class DeckChannel {
 
 	constructor(
 		readonly deck: DeckId,
-		readonly clock: BeatClock
+		readonly clock: BeatClock,
+		racks = 1
 	) {
-		const joints = [this.#play, ...this.#joints, this.output];
-		this.inserts = Array.from(
-			{ length: RACK_COUNT },
-			(_, i) => new RackInsert(i + 1, deck, clock, joints[i], joints[i + 1])
-		);
+		this.ensureRacks(racks);
+	}
+
+	/** Grows the insert chain to `count` racks (a mapping with more racks took over); never shrinks. */
+	ensureRacks(count: number): void {
+		const want = Math.min(MAX_RACKS, Math.max(1, count));
+		while (this.inserts.length < want) {
+			const last = this.inserts.at(-1);
+			let input = this.#play;
+			if (last) {
+				input = new Gain(1);
+				this.#joints.push(input);
+				last.retarget(input);
+			}
+			this.inserts.push(new RackInsert(this.inserts.length + 1, this.deck, this.clock, input, this.output));
+		}
 	}
 
 	get loop(): DemoLoop | null {

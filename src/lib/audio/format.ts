@@ -3,11 +3,12 @@ import { EFFECTS, divisionFromValue, divisionMs, type EffectParam } from '$lib/e
 import type { EffectId } from '$lib/engine/types';
 import { scaleParam } from './params';
 
-export function formatParam(effect: EffectId, index: number, value: number, bpm: number): string {
+/** A parameter as it reads: beat-synced ones as a division (with its length when `bpm` is given). */
+export function formatParam(effect: EffectId, index: number, value: number, bpm?: number): string {
 	const param: EffectParam = EFFECTS[effect].params[index];
 	if (param.divisions) {
 		const division = divisionFromValue(param.divisions, value);
-		return `${division} · ${formatMs(divisionMs(division, bpm))}`;
+		return bpm === undefined ? division : `${division} · ${formatMs(divisionMs(division, bpm))}`;
 	}
 	if (!param.range || param.range.unit === '') return `${Math.round(value * 100)} %`;
 	const v = scaleParam(param, value);

@@ -1,13 +1,14 @@
-// One rack as an insert on one deck: dry and wet (equal-power, DESIGN.md §5) around three slots
-// in series. It follows the rack's state; effect instances are built the first time the rack is
-// routed to this deck and replaced with a short crossfade when a slot's effect changes.
+// One rack as an insert on one deck: dry and wet (equal-power, DESIGN.md §5) around its chain,
+// up to four positions in series, each with its own effect, on and three parameters. It follows
+// the rack's state; effect instances are built the first time the rack is routed to this deck
+// and replaced with a short crossfade when a position's effect changes.
 import { Gain } from 'tone';
-import type { DeckId, EffectId, RackState } from '$lib/engine/types';
+import { CHAIN_MAX, type DeckId, type EffectId, type RackState } from '$lib/engine/types';
 import type { BeatClock } from './beat-clock';
 import { createEffect, type RackEffect } from './effects';
 import { rampParam, type EffectOptions } from './effects/effect';
 import { equalPowerGains } from './mix';
-import { rackEngaged, slotActive, slotValues } from './slot-values';
+import { positionActive, positionValues, rackEngaged } from './chain-values';
 
 /** Every gain move in a rack ramps this long (seconds): short enough to feel instant, no click. */
 export const RACK_FADE = 0.003;
@@ -18,8 +19,8 @@ interface Loaded {
 	engaged: boolean;
 }
 
-/** One slot between two summing nodes it shares with its neighbours; the effect's output level is its wet. */
-class SlotStage {
+/** One chain position between two summing nodes it shares with its neighbours; the effect's output level is its wet. */
+class PositionStage {
 	#bypass = new Gain(1);
 	loaded: Loaded | null = null;
 	#retired: (Loaded & { until: number })[] = [];
@@ -42,7 +43,7 @@ class SlotStage {
 		}
 		if (id === null) return;
 		const effect = createEffect(id, options);
-		effect.output.gain.setValueAtTime(0, 0); // silent until the slot engages (a past time: at once)
+		effect.output.gain.setValueAtTime(0, 0); // silent until the position engages (a past time: at once)
 		this.input.connect(effect.input);
 		effect.output.connect(this.output);
 		this.loaded = { id, effect, engaged: false };
@@ -81,7 +82,7 @@ export class RackInsert {
 	#dry = new Gain(1);
 	#wet = new Gain(0);
 	#joints: Gain[] = [];
-	#slots: SlotStage[] = [];
+	#positions: PositionStage[] = [];
 	#built = false;
 	#direct: boolean;
 	#bpm: number;
@@ -91,7 +92,7 @@ export class RackInsert {
 		readonly deck: DeckId,
 		readonly clock: BeatClock,
 		readonly input: Gain,
-		readonly output: Gain
+		public output: Gain
 	) {
 		this.#bpm = clock.bpmAt(clock.origin);
 		// Offline nothing sounds until the whole render is set up, so a rack not (yet) routed here
@@ -105,32 +106,51 @@ export class RackInsert {
 	follow(rack: RackState, time: number) {
 		const routed = rack.routes[this.deck];
 		if (routed && !this.#built) this.#build();
-		const engaged = rackEngaged(rack, routed);
+		const engaged = rackEngaged(rack, this.deck);
 		const gains = engaged ? equalPowerGains(rack.mix) : { dry: 1, wet: 0 };
 		rampParam(this.#dry.gain, gains.dry, time, RACK_FADE);
 		rampParam(this.#wet.gain, gains.wet, time, RACK_FADE);
-		this.#slots.forEach((stage, i) => {
-			const effect = rack.slots[i].effect;
-			stage.load(effect, { bpm: this.#bpm, clock: this.clock }, time);
-			const active = slotActive(rack, i);
-			if (stage.loaded && effect) {
-				for (const [param, value] of Object.entries(slotValues(rack, i, effect))) {
+		// A lone effect gives the wet path only its own sound; in a chain of several, an effect that
+		// adds (echoes, reverb) keeps its input too, so the positions after it hear the music as well.
+		const several = rack.chain.filter(positionActive).length > 1;
+		this.#positions.forEach((stage, i) => {
+			const position = rack.chain[i];
+			stage.load(position.effect, { bpm: this.#bpm, clock: this.clock }, time);
+			const active = positionActive(position);
+			if (stage.loaded) {
+				for (const [param, value] of Object.entries(positionValues(position))) {
 					stage.loaded.effect.set(param, value, time);
 				}
 			}
-			const adds = stage.loaded?.effect.blend === 'add' && rack.mode === 'chain';
+			const adds = stage.loaded?.effect.blend === 'add' && several;
 			stage.follow(engaged && active, active && !adds ? 0 : 1, time);
 		});
 	}
 
+	/** Moves this insert's output to another summing node (the deck grew a rack after it). */
+	retarget(output: Gain) {
+		if (this.#direct) {
+			this.input.disconnect(this.output);
+			this.input.connect(output);
+		} else {
+			this.#dry.disconnect(this.output);
+			this.#dry.connect(output);
+		}
+		if (this.#built) {
+			this.#wet.disconnect(this.output);
+			this.#wet.connect(output);
+		}
+		this.output = output;
+	}
+
 	setTempo(bpm: number, time: number) {
 		this.#bpm = bpm;
-		for (const stage of this.#slots) stage.loaded?.effect.setTempo(bpm, time);
+		for (const stage of this.#positions) stage.loaded?.effect.setTempo(bpm, time);
 	}
 
 	/** Effects currently loaded, for tests and the sounds page. */
 	get effects(): (EffectId | null)[] {
-		return this.#slots.map((s) => s.loaded?.id ?? null);
+		return this.#positions.map((s) => s.loaded?.id ?? null);
 	}
 
 	#build() {
@@ -140,14 +160,14 @@ export class RackInsert {
 			this.input.chain(this.#dry, this.output);
 			this.#direct = false;
 		}
-		this.#joints = [new Gain(1), new Gain(1)];
+		this.#joints = Array.from({ length: CHAIN_MAX - 1 }, () => new Gain(1));
 		const joints = [this.input, ...this.#joints, this.#wet];
-		this.#slots = [0, 1, 2].map((i) => new SlotStage(joints[i], joints[i + 1]));
+		this.#positions = Array.from({ length: CHAIN_MAX }, (_, i) => new PositionStage(joints[i], joints[i + 1]));
 		this.#wet.connect(this.output);
 	}
 
 	dispose() {
-		for (const s of this.#slots) s.dispose();
+		for (const s of this.#positions) s.dispose();
 		for (const n of [this.#dry, this.#wet, ...this.#joints]) n.dispose();
 	}
 }

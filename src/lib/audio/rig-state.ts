@@ -1,15 +1,15 @@
 // The audio layer's private copy of the rig state, updated path by path from engine changes
 // (`RigChange.path`, e.g. 'racks.0.routes.B'). It only records what the engine decided.
 import { initialRack } from '$lib/engine/rig';
-import { DECK_IDS, RACK_COUNT, type RackState, type RigChange, type RigState } from '$lib/engine/types';
+import { DECK_IDS, type RackState, type RigChange, type RigState } from '$lib/engine/types';
 
-/** A rack as the engine starts it: off, unrouted, empty slots. */
+/** A rack as the engine starts it: off, unrouted, an empty chain. */
 export const quietRack: () => RackState = initialRack;
 
-/** Every rack off and unrouted, every deck playing. */
-export function quietRig(): RigState {
+/** `racks` racks off and unrouted, every deck playing. */
+export function quietRig(racks = 1): RigState {
 	const decks = Object.fromEntries(DECK_IDS.map((d) => [d, { playing: true }])) as RigState['decks'];
-	return { racks: Array.from({ length: RACK_COUNT }, quietRack), decks, counters: {}, held: [] };
+	return { racks: Array.from({ length: racks }, quietRack), decks, counters: {}, held: [] };
 }
 
 export interface Touched {

@@ -1,6 +1,8 @@
-// AudioRig: the one Tone.js graph of a rehearsal (DESIGN.md §5). It follows the engine — every
-// RigChange is scheduled at its event time plus a fixed look-ahead, rounded to a frame, so all
-// changes of one event land on the same audio frame — and never decides what a step does.
+// AudioRig: the one Tone.js graph of a rehearsal (DESIGN.md §5). It follows the engine and never
+// decides what a step does. A live rig (the rehearsal room, the sounds page) applies each event's
+// changes at the next render quantum; an exact rig (replay, offline render) schedules them at the
+// event's time on a frame, plus a look-ahead when it runs in real time. All changes of one event
+// land on the same audio frame.
 import { getContext, setContext, type BaseContext } from 'tone';
 import { DECK_IDS, type DeckId, type RigChange, type RigState } from '$lib/engine/types';
 import { BeatClock } from './beat-clock';
@@ -9,14 +11,21 @@ import { loadCrusher } from './effects/crusher-worklet';
 import type { DemoLoop } from './loops/patterns';
 import { MasterBus } from './master';
 import { quietRig, writeChange, type Touched } from './rig-state';
+import { exactTime, liveTime, onFrame } from './schedule-time';
 
-/** Seconds between an event's time and when its changes sound: JS never races the audio thread. */
+/**
+ * Seconds between an event's time and when its changes sound in a real-time exact rig (replay
+ * following its cursor): changes keep their spacing even when a frame hands over several.
+ */
 export const LOOK_AHEAD = 0.04;
 
 export interface AudioRigOptions {
 	tempo?: number;
 	/** Context time of the session clock's zero (ms 0 of RigChange.t). */
 	origin?: number;
+	/** Live: changes sound at the next render quantum. Otherwise at their event time (exact). */
+	live?: boolean;
+	/** Exact rigs only; default LOOK_AHEAD in real time, 0 offline. */
 	lookAhead?: number;
 	state?: RigState;
 }
@@ -27,7 +36,10 @@ export class AudioRig {
 	readonly clock: BeatClock;
 	readonly decks: Record<DeckId, DeckChannel>;
 	readonly lookAhead: number;
+	readonly live: boolean;
 	origin: number;
+	/** Context time the last event's changes were scheduled at (measured by the benchmark). */
+	lastScheduled = -1;
 	#state: RigState;
 
 	/** Builds the rig on the current Tone context once its worklets are loaded. */
@@ -39,13 +51,15 @@ export class AudioRig {
 
 	private constructor(
 		context: BaseContext,
-		{ tempo = 120, origin = 0, lookAhead = LOOK_AHEAD, state = quietRig() }: AudioRigOptions
+		{ tempo = 120, origin = 0, live = false, lookAhead, state = quietRig() }: AudioRigOptions
 	) {
 		this.context = context;
 		this.origin = origin;
-		this.lookAhead = lookAhead;
+		this.live = live;
+		this.lookAhead = live ? 0 : (lookAhead ?? (context.isOffline ? 0 : LOOK_AHEAD));
 		this.clock = new BeatClock(tempo, origin);
-		this.decks = Object.fromEntries(DECK_IDS.map((d) => [d, new DeckChannel(d, this.clock)])) as Record<
+		const racks = state.racks.length;
+		this.decks = Object.fromEntries(DECK_IDS.map((d) => [d, new DeckChannel(d, this.clock, racks)])) as Record<
 			DeckId,
 			DeckChannel
 		>;
@@ -62,14 +76,14 @@ export class AudioRig {
 		return this.clock.bpmAt(this.context.currentTime);
 	}
 
-	/**
-	 * The context time a change at session time `t` (ms) sounds at: on a frame. It sits a quarter
-	 * frame early so that frame is the first to hear it whether the browser rounds event times
-	 * up or to nearest (seconds × rate is rarely an exact integer in floating point).
-	 */
+	/** The context time a change at session time `t` (ms) sounds at in an exact rig: on a frame. */
 	timeOf(t: number): number {
-		const rate = this.context.sampleRate;
-		return (Math.round((this.origin + t / 1000 + this.lookAhead) * rate) - 0.25) / rate;
+		return onFrame(this.origin + t / 1000 + this.lookAhead, this.context.sampleRate);
+	}
+
+	/** When an event at session time `t` sounds: the next render quantum live, its own time otherwise. */
+	scheduleAt(t: number): number {
+		return this.live ? liveTime(this.context) : exactTime(this.context, this.origin + t / 1000 + this.lookAhead);
 	}
 
 	/** Follows a list of engine changes; consecutive changes of one event share one time. */
@@ -81,7 +95,8 @@ export class AudioRig {
 		let i = 0;
 		while (i < changes.length) {
 			const event = changes[i].event;
-			const time = Math.max(this.timeOf(changes[i].t), this.context.currentTime);
+			const time = this.scheduleAt(changes[i].t);
+			this.lastScheduled = time;
 			const touched: Touched = { racks: new Set(), decks: new Set() };
 			for (; i < changes.length && changes[i].event === event; i++) writeChange(this.#state, changes[i], touched);
 			this.#follow(touched, time);
@@ -91,6 +106,7 @@ export class AudioRig {
 	/** Takes over a whole state at once (a session starting, a seek in replay). */
 	sync(state: RigState, time = this.context.currentTime): void {
 		this.#state = structuredClone(state);
+		for (const d of DECK_IDS) this.decks[d].ensureRacks(state.racks.length);
 		const touched = { racks: new Set(state.racks.map((_, i) => i)), decks: new Set<string>(DECK_IDS) };
 		within(this.context, () => this.#follow(touched, time));
 	}
@@ -114,6 +130,7 @@ export class AudioRig {
 	#follow(touched: Touched, time: number) {
 		for (const r of touched.racks) {
 			const rack = this.#state.racks[r];
+			if (rack) for (const d of DECK_IDS) this.decks[d].ensureRacks(r + 1);
 			if (rack) for (const d of DECK_IDS) this.decks[d].inserts[r].follow(rack, time);
 		}
 		for (const d of touched.decks) {

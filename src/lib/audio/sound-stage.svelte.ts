@@ -1,8 +1,9 @@
 // Live sound for a page: one realtime AudioRig started after a user gesture, its master meter
-// polled each animation frame, and the audition rack the sounds page plays with. Tone.js loads
-// only when sound starts, so a browser without Web Audio still gets the page and a clear message.
-import { EFFECTS } from '$lib/engine/effects';
-import { DECK_IDS, type DeckId, type EffectId, type RigState } from '$lib/engine/types';
+// polled each animation frame, and the audition rack the sounds page plays with: a chain of 1–4
+// effects, each with its own on and parameters. Tone.js loads only when sound starts, so a
+// browser without Web Audio still gets the page and a clear message.
+import { loadedPosition } from '$lib/engine/rig';
+import { CHAIN_MAX, DECK_IDS, type DeckId, type EffectId, type PositionState, type RigState } from '$lib/engine/types';
 import { findLoop } from './loops/patterns';
 import { DEFAULT_MASTER_DB } from './mix';
 import type { AudioRig } from './rig';
@@ -11,12 +12,39 @@ import { webAudioProblem } from './support';
 
 export type StageStatus = 'idle' | 'starting' | 'running' | 'unavailable';
 
-export interface Audition {
+/** One chain position on the bench: always holds an effect (remove the position to empty it). */
+export interface AuditionPosition {
 	effect: EffectId;
+	on: boolean;
+	params: number[];
+}
+
+export interface Audition {
+	chain: AuditionPosition[]; // 1–4
 	deck: DeckId;
 	mix: number;
-	params: number[];
 	on: boolean;
+}
+
+function benchPosition(effect: EffectId): AuditionPosition {
+	const { on, params } = loadedPosition(effect);
+	return { effect, on, params };
+}
+
+/** The audition as a rig state: rack 1 carries the chain, routed to the chosen deck only. */
+export function auditionRig(a: Audition, playing: Record<DeckId, boolean>): RigState {
+	const state = quietRig();
+	for (const d of DECK_IDS) state.decks[d].playing = playing[d];
+	const rack = quietRack();
+	rack.on = a.on;
+	rack.mix = a.mix;
+	rack.routes[a.deck] = true;
+	rack.chain = Array.from({ length: CHAIN_MAX }, (_, i): PositionState => {
+		const p = a.chain[i];
+		return p ? { effect: p.effect, on: p.on, params: [...p.params] } : { ...rack.chain[i] };
+	});
+	state.racks[0] = rack;
+	return state;
 }
 
 export class SoundStage {
@@ -28,13 +56,7 @@ export class SoundStage {
 	loops = $state<Record<DeckId, string | null>>({ A: 'glass-steps', B: null, C: null, D: null });
 	playing = $state<Record<DeckId, boolean>>({ A: true, B: false, C: false, D: false });
 	levels = $state<Record<DeckId, number>>({ A: 0, B: 0, C: 0, D: 0 });
-	audition = $state<Audition>({
-		effect: 'echo',
-		deck: 'A',
-		mix: 0.5,
-		params: EFFECTS.echo.params.map((p) => p.default),
-		on: false
-	});
+	audition = $state<Audition>({ chain: [benchPosition('echo')], deck: 'A', mix: 0.5, on: false });
 	#rig: AudioRig | null = null;
 	#frame = 0;
 
@@ -54,7 +76,7 @@ export class SoundStage {
 			const [tone, { AudioRig }] = await Promise.all([import('tone'), import('./rig')]);
 			await tone.start();
 			const now = tone.getContext().currentTime;
-			this.#rig = await AudioRig.create({ tempo: this.tempo, origin: now, state: this.#rigState() });
+			this.#rig = await AudioRig.create({ tempo: this.tempo, origin: now, live: true, state: this.rigState() });
 			this.#rig.master.setLevel(this.masterDb, now);
 			this.#rig.master.output.toDestination(); // the rig renders offline too, so live pages wire the speakers
 			for (const d of DECK_IDS) this.#applyDeck(d);
@@ -92,9 +114,34 @@ export class SoundStage {
 		this.#rig?.decks[deck].setLevel(db, this.#now());
 	}
 
-	chooseEffect(effect: EffectId): void {
-		this.audition = { ...this.audition, effect, params: EFFECTS[effect].params.map((p) => p.default) };
-		this.#syncRig();
+	/** Puts `effect` at chain position `index` (0-based) with its catalog defaults; at the end it adds one. */
+	setEffect(index: number, effect: EffectId): void {
+		if (index < 0 || index > this.audition.chain.length || index >= CHAIN_MAX) return;
+		const chain = [...this.audition.chain];
+		chain[index] = benchPosition(effect);
+		this.updateAudition({ chain });
+	}
+
+	/** Adds an effect at the end of the chain (up to four). */
+	addEffect(effect: EffectId): void {
+		this.setEffect(this.audition.chain.length, effect);
+	}
+
+	/** Removes a position; the chain keeps at least one effect. */
+	removePosition(index: number): void {
+		if (this.audition.chain.length <= 1) return;
+		this.updateAudition({ chain: this.audition.chain.filter((_, i) => i !== index) });
+	}
+
+	updatePosition(index: number, patch: Partial<Omit<AuditionPosition, 'effect'>>): void {
+		const chain = this.audition.chain.map((p, i) => (i === index ? { ...p, ...patch } : p));
+		this.updateAudition({ chain });
+	}
+
+	setParam(index: number, param: number, value: number): void {
+		const params = [...(this.audition.chain[index]?.params ?? [])];
+		params[param] = value;
+		this.updatePosition(index, { params });
 	}
 
 	updateAudition(patch: Partial<Audition>): void {
@@ -112,24 +159,14 @@ export class SoundStage {
 		this.#rig?.decks[deck].setLevel(this.levels[deck], this.#now());
 	}
 
-	/** The audition as a rig state: rack 1 in focus mode, routed to the chosen deck only. */
-	#rigState(): RigState {
-		const state = quietRig();
-		for (const d of DECK_IDS) state.decks[d].playing = this.playing[d];
-		const a = this.audition;
-		const rack = quietRack();
-		rack.on = a.on;
-		rack.mode = 'focus';
-		rack.mix = a.mix;
-		rack.params = [...a.params];
-		rack.routes[a.deck] = true;
-		rack.slots[0] = { effect: a.effect, on: true, amount: 0.5 };
-		state.racks[0] = rack;
-		return state;
+	/** What the page plays, as a rig state (the WAV export renders the same). */
+	rigState(): RigState {
+		return auditionRig(this.audition, this.playing);
 	}
 
+	/** A live change: heard from the next render quantum. */
 	#syncRig() {
-		this.#rig?.sync(this.#rigState(), this.#now() + this.#rig.lookAhead);
+		this.#rig?.sync(this.rigState(), this.#rig.scheduleAt(0));
 	}
 
 	#poll = () => {

@@ -4,27 +4,30 @@ import type { FindingKind } from '$lib/engine';
 
 export const KIND_NAME: Record<FindingKind, string> = {
 	dropout: 'Dropout',
-	stuck: 'Stuck',
-	leak: 'Leak',
+	'stuck-on': 'Stuck on',
+	bleed: 'Bleed',
 	clash: 'Clash',
-	drift: 'Drift',
-	clamp: 'Clamp'
+	'count-left-over': 'Count left over',
+	'count-overflow': 'Count overflow',
+	takeover: 'Takeover'
 };
 
 export const KIND_FILL: Record<FindingKind, string> = {
 	dropout: 'fill-alarm-400',
-	stuck: 'fill-alarm-300',
-	leak: 'fill-alarm-600',
+	'stuck-on': 'fill-alarm-300',
+	bleed: 'fill-alarm-600',
 	clash: 'fill-cue-300',
-	drift: 'fill-cue-400',
-	clamp: 'fill-cue-600'
+	'count-left-over': 'fill-cue-400',
+	'count-overflow': 'fill-cue-600',
+	takeover: 'fill-ink-100'
 };
 
 export const KIND_BADGE: Record<FindingKind, string> = {
 	dropout: 'bg-alarm-400 text-stage-950',
-	stuck: 'bg-alarm-300 text-stage-950',
-	leak: 'bg-alarm-600 text-ink-100',
+	'stuck-on': 'bg-alarm-300 text-stage-950',
+	bleed: 'bg-alarm-600 text-ink-100',
 	clash: 'bg-cue-300 text-stage-950',
-	drift: 'bg-cue-400 text-stage-950',
-	clamp: 'bg-cue-600 text-ink-100'
+	'count-left-over': 'bg-cue-400 text-stage-950',
+	'count-overflow': 'bg-cue-600 text-ink-100',
+	takeover: 'bg-ink-100 text-stage-950'
 };
