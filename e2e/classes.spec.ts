@@ -42,7 +42,7 @@ async function teacherPage(browser: Browser) {
 }
 
 test('teacher, student and gradebook: a drill from class creation to a graded, exported take', async ({ browser }) => {
-	test.setTimeout(180_000);
+	test.setTimeout(300_000);
 	const teacher = await teacherPage(browser);
 
 	// A class.
@@ -59,6 +59,7 @@ test('teacher, student and gradebook: a drill from class creation to a graded, e
 	await teacher.getByLabel('Played on').selectOption({ label: 'Two-deck pad set (v1)' });
 	await teacher.getByLabel('Tempo (BPM)').fill('100');
 	await teacher.getByLabel('Length (bars)').fill('1');
+	await teacher.getByLabel('Timing window (± ms)').fill('40');
 	await teacher.getByLabel('Grid').selectOption('1');
 	for (const beat of [1, 2, 3, 4])
 		await teacher.getByRole('button', { name: `Place Pad 1 at beat ${beat}`, exact: true }).click();
@@ -74,7 +75,7 @@ test('teacher, student and gradebook: a drill from class creation to a graded, e
 	expect(await exported.json()).toMatchObject({
 		version: 1,
 		tempo: 100,
-		windowMs: 60,
+		windowMs: 40,
 		targets: [{ input: 'pad-1', beat: 0, beats: 1 }, {}, {}, {}]
 	});
 
@@ -96,7 +97,7 @@ test('teacher, student and gradebook: a drill from class creation to a graded, e
 	const link = invite!.text!.match(/https?:\/\/\S+\/join\/[\w-]+/)![0];
 	const midiContext = await browser.newContext();
 	const page = await midiContext.newPage();
-	const midi = await installFakeMidi(page, { ports: ONE_CONTROLLER });
+	await installFakeMidi(page, { ports: ONE_CONTROLLER });
 	await open(page, new URL(link).pathname);
 	await expect(page.getByRole('heading', { name: 'Join “Thursday pad crew”' })).toBeVisible();
 	await shot(page, 'join-signed-out');
@@ -118,29 +119,32 @@ test('teacher, student and gradebook: a drill from class creation to a graded, e
 	const panel = page.getByTestId('drill-panel');
 	await expect(panel).toBeVisible({ timeout: 60_000 });
 	await expect(page.getByTestId('midi-status')).toHaveAttribute('data-status', 'ready', { timeout: 15_000 });
-	await page.getByTestId('drill-start').click();
-	await expect(panel).toHaveAttribute('data-zero', /\d/);
-	const zero = Number(await panel.getAttribute('data-zero'));
+	// The player waits in the page for beat 0 to be known, so a slow test runner can't make it late.
 	await page.evaluate(
-		({ zero, on, off, note }) => {
-			for (let beat = 0; beat < 4; beat++) {
-				const at = zero + beat * 600 + 10; // 100 BPM: 600 ms a beat
-				setTimeout(() => window.__fakeMidi.send('pads-in', [on, note, 100]), at - performance.now());
-				setTimeout(() => window.__fakeMidi.send('pads-in', [off, note, 0]), at + 300 - performance.now());
-			}
+		({ on, off, note }) => {
+			const panel = document.querySelector('[data-testid="drill-panel"]')!;
+			new MutationObserver((_, watch) => {
+				const zero = Number(panel.getAttribute('data-zero'));
+				if (!zero) return;
+				watch.disconnect();
+				for (let beat = 0; beat < 4; beat++) {
+					const at = zero + beat * 600 + 10; // 100 BPM: 600 ms a beat; 10 ms late
+					// Stamped with the time they are played, as a device does, however late the timer runs.
+					setTimeout(() => window.__fakeMidi.send('pads-in', [on, note, 100], at), at - performance.now());
+					setTimeout(() => window.__fakeMidi.send('pads-in', [off, note, 0], at + 300), at + 300 - performance.now());
+				}
+			}).observe(panel, { attributes: true, attributeFilter: ['data-zero'] });
 		},
-		{ zero, on: NOTE_ON, off: NOTE_OFF, note: PAD_1 }
+		{ on: NOTE_ON, off: NOTE_OFF, note: PAD_1 }
 	);
-	await expect(page.getByTestId('drill-countdown')).toBeVisible();
-	await shot(page, 'practice-count-in');
-	await expect(panel).toHaveAttribute('data-status', 'playing', { timeout: 5_000 });
-	await shot(page, 'practice-playing');
-	await expect(panel).toHaveAttribute('data-status', 'scored', { timeout: 20_000 });
+	await page.getByTestId('drill-start').click();
+	await expect(panel).toHaveAttribute('data-status', /counting|playing/, { timeout: 15_000 });
+	await shot(page, 'practice-running');
+	await expect(panel).toHaveAttribute('data-status', 'scored', { timeout: 30_000 });
 	await expect(page.getByTestId('score-hit-rate')).toHaveText('100 %');
 	await expect(page.getByTestId('score-hits')).toHaveText('4 of 4');
 	await expect(page.getByTestId('score-pass')).toHaveText('Passed');
 	await shot(page, 'practice-scored');
-	void midi;
 
 	// Hand it in.
 	await page.getByTestId('to-assignment').click();
