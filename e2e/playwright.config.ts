@@ -7,10 +7,15 @@ import { resolve } from 'node:path';
 const port = Number(process.env.E2E_PORT ?? 4173);
 const origin = `http://localhost:${port}`;
 const dataDir = resolve(`e2e/.data/${port}`);
+// A second server on the next port keeps the sign-in throttle on (e2e/throttle.spec.ts).
+const throttledPort = port + 1;
+const throttledDir = resolve(`e2e/.data/${port}-throttled`);
 // Workers load this file again while the server runs: only the runner itself starts afresh.
 if (!process.env.TEST_WORKER_INDEX) {
-	rmSync(dataDir, { recursive: true, force: true });
-	mkdirSync(dataDir, { recursive: true });
+	for (const dir of [dataDir, throttledDir]) {
+		rmSync(dir, { recursive: true, force: true });
+		mkdirSync(dir, { recursive: true });
+	}
 }
 
 const chromium = process.env.CHROMIUM_PATH ?? '/usr/bin/chromium';
@@ -20,6 +25,8 @@ if (!existsSync(chromium)) {
 			'or point CHROMIUM_PATH at a Chromium or Chrome binary.'
 	);
 }
+
+const throttledOrigin = `http://localhost:${throttledPort}`;
 
 const env = {
 	PORT: String(port),
@@ -59,12 +66,33 @@ export default defineConfig({
 			]
 		}
 	},
-	webServer: {
-		command: process.env.E2E_DEV ? `npx vite dev --port ${port} --strictPort` : 'npm run build && node build',
-		cwd: '..',
-		url: origin,
-		timeout: 240_000,
-		reuseExistingServer: false,
-		env
-	}
+	// Started one after the other: the second reuses the first one's build.
+	webServer: [
+		{
+			command: process.env.E2E_DEV ? `npx vite dev --port ${port} --strictPort` : 'npm run build && node build',
+			cwd: '..',
+			url: origin,
+			timeout: 480_000,
+			reuseExistingServer: false,
+			env
+		},
+		{
+			command: process.env.E2E_DEV ? `npx vite dev --port ${throttledPort} --strictPort` : 'node build',
+			cwd: '..',
+			url: throttledOrigin,
+			timeout: 120_000,
+			reuseExistingServer: false,
+			env: {
+				...env,
+				PORT: String(throttledPort),
+				ORIGIN: throttledOrigin,
+				BETTER_AUTH_URL: throttledOrigin,
+				DATABASE_URL: `file:${throttledDir}/padproof.db`,
+				UPLOADS_DIR: `${throttledDir}/uploads`,
+				MAIL_OUTBOX_DIR: `${throttledDir}/outbox`,
+				PADPROOF_DATA_DIR: throttledDir,
+				PADPROOF_RATE_LIMIT: 'on'
+			}
+		}
+	]
 });

@@ -24,7 +24,7 @@ export async function signIn(page: Page, who: keyof typeof DEMO | string, passwo
 	await page.getByLabel('Email').fill(email);
 	await page.getByLabel('Password').fill(password);
 	await page.getByRole('button', { name: 'Sign in' }).click();
-	await expect(page.getByTestId('account-menu')).toBeVisible();
+	await expect(page.getByTestId('account-menu')).toBeVisible({ timeout: 30_000 });
 }
 
 /**
@@ -44,4 +44,18 @@ export async function touchScreen(page: Page) {
 		up: (touchPoints: { x: number; y: number; id: number }[]) =>
 			cdp.send('Input.dispatchTouchEvent', { type: 'touchEnd', touchPoints })
 	};
+}
+
+/** The server with the sign-in throttle on (second web server of playwright.config.ts). */
+export const THROTTLED_ORIGIN = `http://localhost:${Number(process.env.E2E_PORT ?? 4173) + 1}`;
+
+/** Signs up a fresh account through the form and waits for the home page. */
+export async function signUp(page: Page, name: string, email: string, password: string) {
+	await open(page, '/signup');
+	await page.getByLabel('Name').fill(name);
+	await page.getByLabel('Email').fill(email);
+	await page.getByLabel('Password', { exact: true }).fill(password);
+	await page.getByLabel('Repeat password').fill(password);
+	await page.getByRole('button', { name: 'Create account' }).click();
+	await expect(page).toHaveURL(/\/home$/, { timeout: 30_000 });
 }

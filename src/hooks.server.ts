@@ -1,5 +1,6 @@
 import { building } from '$app/environment';
 import { auth } from '$lib/server/auth';
+import { authGate } from '$lib/server/auth-gate';
 import { demoEnabled } from '$lib/server/config';
 import { client, db, prepareDatabase } from '$lib/server/db';
 import { seedDemo } from '$lib/server/db/seed';
@@ -15,5 +16,6 @@ export const handle: Handle = async ({ event, resolve }) => {
 	const session = await auth.api.getSession({ headers: event.request.headers });
 	event.locals.user = session?.user ?? null;
 	event.locals.session = session?.session ?? null;
+	if (event.url.pathname === '/api/auth' || event.url.pathname.startsWith('/api/auth/')) return authGate(event);
 	return svelteKitHandler({ event, resolve, auth, building });
 };

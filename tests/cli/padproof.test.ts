@@ -37,7 +37,14 @@ describe('padproof CLI', () => {
 
 	it('gives machines JSON with --json', () => {
 		const r = runCli(['lint', file('bad.json', demoMapping('broken-row')), '--json']);
-		expect(JSON.parse(r.out).findings[0]).toMatchObject({ rule: 'legato-without-counter', input: 'pad-13' });
+		// Numbered from 1, as in the text output: pad-13's binding is the 13th, its momentary step the 6th.
+		expect(JSON.parse(r.out).findings[0]).toMatchObject({
+			rule: 'legato-without-counter',
+			input: 'pad-13',
+			binding: 13,
+			step: 6,
+			message: expect.stringMatching(/plain momentary steps/)
+		});
 	});
 
 	it('verifies a group and prints the shortest breaking sequence', () => {
@@ -49,7 +56,9 @@ describe('padproof CLI', () => {
 			'press pad-14',
 			'release pad-13'
 		]);
-		expect(runCli(['verify', 'demo:two-deck']).out).toBe('stutter-row (4 inputs): proved over 17 states');
+		expect(runCli(['verify', 'demo:two-deck']).out).toMatch(
+			/^stutter-row \(4 inputs\): proved for this group, from the starting rig \(\d+ states, 3 pads folded\)$/
+		);
 	});
 
 	it('replays a session and points findings at session events', () => {
@@ -66,9 +75,33 @@ describe('padproof CLI', () => {
 		const r = runCli(['replay', 'demo:broken-row', file('session.json', s)]);
 		expect(r.code).toBe(1);
 		expect(r.out).toMatch(
-			/dropout +12\.438 s – 13\.000 s {2}event 4: release of Pad 13 at 12\.438 s turned rack 2 off while Pad 14 was held/
+			/Dropout +12\.438 s – 13\.000 s {2}event 4: release of Pad 13 at 12\.438 s turned rack 2 off while Pad 14 was held/
 		);
 		expect(runCli(['replay', 'demo:two-deck', file('session.json', s)]).code).toBe(0);
+	});
+
+	it('prints the audible intervals and plain-worded findings numbered from 1 with replay --json', () => {
+		const s = sessionFromEvents(
+			[
+				{ t: 1000, input: 'pad-13', type: 'press' },
+				{ t: 1500, input: 'pad-14', type: 'press' },
+				{ t: 12438, input: 'pad-13', type: 'release' },
+				{ t: 13000, input: 'pad-14', type: 'release' }
+			],
+			124
+		);
+		const out = JSON.parse(runCli(['replay', 'demo:broken-row', file('s.json', s), '--json']).out);
+		expect(out.audible).toEqual([{ rack: 2, deck: 'A', start: 1000, end: 12438, startEvent: 1, endEvent: 3 }]);
+		expect(out.findings).toEqual([
+			expect.objectContaining({
+				kind: 'dropout',
+				label: 'Dropout',
+				explain: expect.stringMatching(/held, yet its effect is not heard/),
+				event: 3,
+				binding: 14,
+				input: 'pad-14'
+			})
+		]);
 	});
 
 	it.each([
@@ -93,5 +126,5 @@ describe('padproof CLI', () => {
 		const r = spawnSync('npx', ['tsx', 'src/lib/cli/padproof.ts', 'lint', 'demo:broken-row'], { encoding: 'utf8' });
 		expect(r.status).toBe(1);
 		expect(r.stdout).toMatch(/Broken stutter row: 1 finding/);
-	});
+	}, 60_000); // starts a whole Node process through npx: slow on a busy machine
 });

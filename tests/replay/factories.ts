@@ -17,5 +17,11 @@ export const chord = (): InputEvent[] => [
 
 export function sessionOf(events: InputEvent[], extra: SessionDocument['events'] = []): SessionDocument {
 	const all = [...events.map(({ t, ...input }) => ({ t, input })), ...extra].sort((a, b) => a.t - b.t);
-	return { version: 1, tempo: 124, startedAt: '2026-03-02T18:30:00.000Z', events: all };
+	return {
+		version: 2,
+		tempo: 124,
+		startedAt: '2026-03-02T18:30:00.000Z',
+		clock: { zero: 0, tempos: [{ at: 0, bpm: 124 }] },
+		events: all
+	};
 }

@@ -1,4 +1,4 @@
-import { padId, type SessionEvent } from '$lib/engine';
+import { demoMapping, padId, replay, sessionStart, type SessionEvent } from '$lib/engine';
 import { openDatabase } from '$lib/server/db';
 import { listMappings } from '$lib/server/mappings';
 import {
@@ -94,6 +94,28 @@ describe('importing a session document', () => {
 		const id = await importSession(t.db, t.kai, mappingId, doc, 'From file');
 		const { session, row } = await sessionDocument(t.db, t.kai, id);
 		expect(row.status).toBe('saved');
-		expect(session).toEqual({ ...doc, mapping: 'Two-deck pad set' });
+		// A version 1 file is kept as version 2: beat 0 at 0 and its tempo constant.
+		expect(session).toEqual({
+			...doc,
+			version: 2,
+			clock: { zero: 0, tempos: [{ at: 0, bpm: 124 }] },
+			mapping: 'Two-deck pad set'
+		});
+	});
+});
+
+describe('a take that starts mid-play', () => {
+	it('keeps the starting rig and beat clock, and counts no overflow that never happened', async () => {
+		const held = replay(demoMapping('two-deck'), [{ t: 0, input: padId(13), type: 'press' }]).final;
+		const start = sessionStart(held, { zero: 250, tempos: [{ at: 250, bpm: 124 }] }, 1000);
+		const mappingId = await demoId('Two-deck pad set');
+		const { id } = await createRehearsal(t.db, t.kai, { mappingId, tempo: 124, ...start });
+		await appendChunk(t.db, t.kai, id, { seq: 0, events: [release(300, 13)] });
+		const later = { zero: -750, tempos: [...start.clock.tempos, { at: 200, bpm: 100 }] };
+		expect(await finishRehearsal(t.db, t.kai, id, undefined, later)).toEqual({ findings: 0 });
+		const { session } = await sessionDocument(t.db, t.kai, id);
+		expect(session.clock).toEqual(later);
+		expect(session.initial?.held).toEqual([padId(13)]);
+		expect(session.initial?.counters).toEqual(held.counters);
 	});
 });

@@ -9,7 +9,8 @@ import { lintMapping } from '../engine/lint';
 import { parseMappingText, type Problem } from '../engine/mapping';
 import { replay } from '../engine/replay';
 import { parseDrill, scoreDrill, scoreSummary, type DrillDocument } from '../engine/score';
-import { parseSession, sessionEvents } from '../engine/session';
+import { parseSession, sessionEvents, sessionReplay } from '../engine/session';
+import { FINDING_INFO, numberedFinding } from '../engine/findings';
 import { groupIds, groupInputs, verifyGroupSync, type VerifyResult } from '../engine/verify';
 import type { Finding, Mapping } from '../engine/types';
 
@@ -17,13 +18,17 @@ export const HELP = `padproof — check pad mappings from the command line
 
 Usage:
   padproof lint <mapping.json> [--json]
-      Static checks: clashes, partial routing, unset modes, legato rows without a counter,
-      unbalanced counts, idle guards, steps that can never run.
+      Static checks: clashes, partial routing, pads that don't load their chain, counters too
+      small for their hold group, hold groups without a counter, unbalanced counts, idle guards,
+      steps that can never run.
   padproof verify <mapping.json> [--group ID | --inputs a,b,c] [--json]
-      Try every press/release order of a legato group (all groups when none is named) and
-      print a proof or the shortest sequence that breaks it.
+      Try every press/release order of a hold group (all groups when none is named), from the
+      starting rig, and print a proof or the shortest sequence that breaks it.
   padproof replay <mapping.json> <session.json> [--json]
-      Replay a recorded session and list dropouts, stuck racks, leaks, clashes, drift, clamps.
+      Replay a recorded session from the rig and beat clock it was recorded with, and list its
+      findings: ${Object.values(FINDING_INFO)
+				.map((i) => i.label.toLowerCase())
+				.join(', ')}.
   padproof score <drill.json> <mapping.json> <session.json> [--json]
       Score a session against a drill: hits, misses, extras, timing errors, hold lengths,
       findings, and whether it passes (exit 0 pass, 1 not passed).
@@ -128,7 +133,9 @@ function lint(a: Args): CliResult {
 	const mapping = loadMapping(need(a.files[0], 'a mapping file'));
 	const findings = lintMapping(mapping);
 	const code = findings.length ? 1 : 0;
-	if (a.json) return { code, out: json({ mapping: mapping.name, findings }), err: '' };
+	// Numbered from 1 in JSON as in text: binding 1 is the first binding.
+	const numbered = findings.map((f) => ({ ...f, binding: f.binding + 1, step: f.step === null ? null : f.step + 1 }));
+	if (a.json) return { code, out: json({ mapping: mapping.name, findings: numbered }), err: '' };
 	const lines = findings.map(
 		(f) =>
 			`  ${f.rule.padEnd(24)} binding ${f.binding + 1}${f.step !== null ? `, step ${f.step + 1}` : ''}: ${f.message}`
@@ -149,17 +156,24 @@ function verify(a: Args): CliResult {
 		throw new Usage((e as Error).message);
 	}
 	const code = results.some((r) => !r.result.ok) ? 1 : 0;
-	if (a.json) return { code, out: json({ mapping: mapping.name, groups: results }), err: '' };
+	if (a.json) {
+		const groups = results.map(({ result: { finding, ...r }, ...g }) => ({
+			...g,
+			result: { ...r, ...(finding && { finding: numberedFinding(finding) }) }
+		}));
+		return { code, out: json({ mapping: mapping.name, groups }), err: '' };
+	}
 	if (!results.length)
-		return { code, out: `${mapping.name}: no legato groups to verify (name inputs with --inputs)`, err: '' };
+		return { code, out: `${mapping.name}: no hold groups to verify (name inputs with --inputs)`, err: '' };
 	const out = results.flatMap(({ group, inputs, result: r }) => {
 		const head = `${group} (${inputs.length} inputs): `;
-		if (r.ok) return [`${head}proved over ${r.statesExplored} states`];
-		if (r.status !== 'broken') return [`${head}${r.status} after ${r.statesExplored} states`];
+		const how = `${count(r.statesExplored, 'state')}, ${count(r.padsFolded, 'pad')} folded`;
+		if (r.ok) return [`${head}proved for ${r.scope} (${how})`];
+		if (r.status !== 'broken') return [`${head}${r.status === 'too-big' ? 'too big to check' : r.status} (${how})`];
 		return [
 			`${head}broken — shortest sequence (${r.counterexample!.length} events):`,
 			...r.counterexample!.map((e, i) => `  ${i + 1}. ${e.type} ${e.input} at ${ms(e.t)}`),
-			`  ${r.finding?.kind ?? 'finding'}: ${r.finding?.message ?? ''}`
+			r.finding ? `  ${FINDING_INFO[r.finding.kind].label}: ${r.finding.message}` : '  (no finding on replay)'
 		];
 	});
 	return { code, out: out.join('\n'), err: '' };
@@ -169,25 +183,32 @@ function replayCommand(a: Args): CliResult {
 	const mapping = loadMapping(need(a.files[0], 'a mapping file'));
 	const session = loadSession(need(a.files[1], 'a session file'));
 	const { events, indexes } = sessionEvents(session);
-	const options = { tempo: session.tempo };
+	const options = sessionReplay(mapping, session);
 	const timeline = replay(mapping, events, options);
 	// Findings point at session events, so a reader can find them in the recording.
 	const findings: Finding[] = analyze(mapping, events, options).map((f) => ({ ...f, event: indexes[f.event] }));
 	const code = findings.length ? 1 : 0;
+	// Session events are numbered from 1 in JSON as in text.
+	const number = (k: number | null) => (k === null || k < 0 ? null : indexes[k] + 1);
 	if (a.json)
 		return {
 			code,
 			out: json({
 				mapping: mapping.name,
 				events: session.events.length,
-				findings,
-				audible: timeline.audible,
+				findings: findings.map(numberedFinding),
+				audible: timeline.audible.map((iv) => ({
+					...iv,
+					startEvent: number(iv.startEvent),
+					endEvent: number(iv.endEvent)
+				})),
 				clamps: timeline.clamps.length
 			}),
 			err: ''
 		};
 	const lines = findings.map(
-		(f) => `  ${f.kind.padEnd(8)} ${ms(f.start)} – ${ms(f.end)}  event ${f.event + 1}: ${f.message}`
+		(f) =>
+			`  ${FINDING_INFO[f.kind].label.padEnd(15)} ${ms(f.start)} – ${ms(f.end)}  event ${f.event + 1}: ${f.message}`
 	);
 	const head = `${mapping.name}: ${session.events.length} events, ${count(timeline.audible.length, 'audible stretch', 'audible stretches')}, ${count(findings.length, 'finding')}`;
 	return { code, out: [head, ...lines].join('\n'), err: '' };

@@ -7,6 +7,7 @@
 import { runEvents, type ReplayOptions } from './replay';
 import { initialRigState, isAudible } from './rig';
 import {
+	bindingName,
 	conditions,
 	initialWatch,
 	inputName,
@@ -85,7 +86,7 @@ function message(
 		return `${by} left no pad of ${rules.units[c.unit].name} held, yet rack ${c.rack} stays audible on deck ${c.deck}`;
 	if (c.kind === 'bleed') {
 		const b = rules.bindings[c.binding!];
-		return `${by} left rack ${c.rack} audible on deck ${c.deck}, but ${b.label ?? inputName(m, b.input)} targets deck ${b.deck}`;
+		return `${by} left rack ${c.rack} audible on deck ${c.deck}, but ${bindingName(m, b)} targets deck ${b.deck}`;
 	}
 	const rest = rules.rest.get(c.counter!);
 	return `${by} left no pad that counts ${c.counter} held, yet it reads ${s.counters[c.counter!]} instead of ${rest}`;
@@ -110,7 +111,7 @@ function clashMessage(m: Mapping, rules: Rules, e: InputEvent, at: number): stri
 function takeoverMessage(m: Mapping, e: InputEvent, at: number, t: Takeover): string {
 	const holder = m.bindings[t.holder];
 	const by = m.bindings[t.by];
-	const name = (b: typeof holder) => b.label ?? inputName(m, b.input);
+	const name = (b: typeof holder) => bindingName(m, b);
 	return `${cause(m, e, at)} changed rack ${t.rack} while ${name(holder)} held it on (latched): ${name(by)} took over ${name(holder)}'s effect`;
 }
 

@@ -2,8 +2,23 @@
 export * from './types';
 export * from './effects';
 export { parseMapping, parseMappingText, mappingSchema, type Problem, type MappingResult } from './mapping';
-export { parseSession, sessionEvents, sessionFromEvents, sessionSchema, type SessionResult } from './session';
-export { applyEvent, applyEvents, initialRigState, initialRack, isAudible } from './rig';
+export {
+	clockSchema,
+	parseSession,
+	sessionEvents,
+	sessionEventsSchema,
+	sessionFromEvents,
+	sessionReplay,
+	sessionSchema,
+	sessionStart,
+	sessionStartRig,
+	sessionStartSchema,
+	type SessionResult
+} from './session';
+export { beatAt, constantClock, gridLine, tempoAt, timeAtBeat, withTempo, type TempoChange } from './clock';
+export { FINDING_INFO, findingKind, numberedFinding, storedFinding, type FindingInfo } from './findings';
+export { applyEvent, applyEvents, chainSounds, guardHolds, initialRigState, initialRack, isAudible } from './rig';
+export { addressText, bindingName, inputName, racksOf } from './watch';
 export { clockFor, engageAt, scheduleEvents, DEFAULT_TEMPO, type Clock, type Scheduled } from './schedule';
 export { replay, runEvents, AudibleTracker, type ReplayOptions } from './replay';
 export { analyze, whySilent } from './analyze';
@@ -15,7 +30,8 @@ export {
 	groupIds,
 	type VerifyOptions,
 	type VerifyProgress,
-	type VerifyResult
+	type VerifyResult,
+	PROOF_SCOPE
 } from './verify';
 export { onePressEffect, legatoRow, type OnePressOptions, type LegatoRowOptions, type LegatoVariant } from './builders';
 export { DEMO_MAPPINGS, demoMapping, padGridProfile, padId, PAD_NOTE_BASE, type DemoMapping } from './demo';

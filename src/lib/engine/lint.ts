@@ -6,7 +6,8 @@
 // is below the number of pads that count it), legato-without-counter (a group sharing momentary on/off with no held-pad counter),
 // unbalanced-count (count-up without a count-down on release), idle-guard (a guard on a counter
 // nothing changes), dead-step (a step that can never run).
-import { inputName, rulesFor } from './watch';
+import { guardHolds } from './rig';
+import { bindingName, inputName, rulesFor } from './watch';
 import { DECK_IDS, type Binding, type Guard, type Mapping, type Step } from './types';
 
 export const LINT_RULES = [
@@ -34,7 +35,7 @@ const isOff = (s: Step) => s.action === 'set' && s.value === 0;
 
 export function lintMapping(m: Mapping): LintFinding[] {
 	const out: LintFinding[] = [];
-	const name = (b: Binding) => b.label ?? inputName(m, b.input);
+	const name = (b: Binding) => bindingName(m, b);
 	const push = (rule: LintRule, bi: number, step: number | null, message: string) =>
 		out.push({ rule, binding: bi, step, input: m.bindings[bi].input, message });
 	clashes(m, push, name);
@@ -164,25 +165,8 @@ function counts(m: Mapping, b: Binding, bi: number, push: Push, name: Name) {
 }
 
 function satisfiable(guards: Guard[], max: number): boolean {
-	for (let v = 0; v <= max; v++) if (guards.every((g) => test(v, g))) return true;
+	for (let v = 0; v <= max; v++) if (guards.every((g) => guardHolds(g.op, v, g.value))) return true;
 	return false;
-}
-
-function test(v: number, g: Guard): boolean {
-	switch (g.op) {
-		case '=':
-			return v === g.value;
-		case '!=':
-			return v !== g.value;
-		case '<':
-			return v < g.value;
-		case '<=':
-			return v <= g.value;
-		case '>':
-			return v > g.value;
-		case '>=':
-			return v >= g.value;
-	}
 }
 
 function deadSteps(m: Mapping, b: Binding, bi: number, push: Push, name: Name) {

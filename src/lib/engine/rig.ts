@@ -21,6 +21,7 @@ import {
 	type Clamp,
 	type DeckId,
 	type EffectId,
+	type GuardOp,
 	type InputEvent,
 	type Mapping,
 	type PositionState,
@@ -136,24 +137,29 @@ class Draft {
 	}
 }
 
+/** The one guard comparison (DESIGN.md §4.2): does counter value `v` pass `op value`? */
+export function guardHolds(op: GuardOp, v: number, value: number): boolean {
+	switch (op) {
+		case '=':
+			return v === value;
+		case '!=':
+			return v !== value;
+		case '<':
+			return v < value;
+		case '<=':
+			return v <= value;
+		case '>':
+			return v > value;
+		case '>=':
+			return v >= value;
+	}
+}
+
 function guardsHold(step: CompiledStep, snapshot: Record<string, number>): boolean {
 	const gs = step.guards;
 	for (let g = 0; g < gs.length; g++) {
 		const { counter, op, value } = gs[g];
-		const v = snapshot[counter] ?? 0;
-		const ok =
-			op === '='
-				? v === value
-				: op === '!='
-					? v !== value
-					: op === '<'
-						? v < value
-						: op === '<='
-							? v <= value
-							: op === '>'
-								? v > value
-								: v >= value;
-		if (!ok) return false;
+		if (!guardHolds(op, snapshot[counter] ?? 0, value)) return false;
 	}
 	return true;
 }

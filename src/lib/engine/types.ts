@@ -238,17 +238,37 @@ export interface Finding {
 	message: string;
 }
 
-/** A recorded rehearsal (our own format, version 1). Times are ms from `startedAt`. */
+/** A recorded rehearsal (our own format, version 2). Times are ms from `startedAt`. */
 export interface SessionEvent {
 	t: number;
 	midi?: number[]; // the raw message bytes, when it came from a device
 	input: { input: string; type: 'press' | 'release' | 'turn'; value?: number } | null; // null: unmapped
 }
 
+/** The beat clock a take was played on: ms of beat 0 and every tempo change (DESIGN.md §4.5). */
+export interface SessionClock {
+	zero: number;
+	tempos: { at: number; bpm: number }[];
+}
+
+/** The rig as it stood when recording began, so replay starts where the take did. */
+export interface SessionStart {
+	held: string[];
+	counters: Record<string, number>;
+	racks: RackState[];
+	decks: Record<DeckId, DeckState>;
+}
+
+/**
+ * Version 2 adds the beat clock and the starting rig. A version 1 document still parses: its
+ * clock is beat 0 at time 0 at its constant tempo, and it starts from the mapping's starting rig.
+ */
 export interface SessionDocument {
-	version: 1;
-	tempo: number;
+	version: 2;
+	tempo: number; // the tempo when recording began
 	startedAt: string; // ISO 8601
 	mapping?: string;
+	clock: SessionClock;
+	initial?: SessionStart;
 	events: SessionEvent[];
 }

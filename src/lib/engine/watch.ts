@@ -99,6 +99,11 @@ export function inputName(mapping: Mapping, input: string): string {
 	return map.get(input) ?? input;
 }
 
+/** How messages name a binding: its own label, else its input's name. */
+export function bindingName(mapping: Mapping, b: Binding): string {
+	return b.label ?? inputName(mapping, b.input);
+}
+
 export function addressText(i: Mapping['profile']['inputs'][0]): string {
 	return i.note !== undefined ? `note ${i.note} on channel ${i.channel}` : `CC ${i.cc} on channel ${i.channel}`;
 }

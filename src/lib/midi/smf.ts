@@ -5,6 +5,7 @@
 import { parseMidi, writeMidi, type MidiData, type MidiEvent } from 'midi-file';
 // Relative, not $lib: Node scripts load this module without SvelteKit's aliases.
 import { sessionEvents } from '../engine/session';
+import { constantClock } from '../engine/clock';
 import type { ControllerProfile, InputEvent, SessionDocument } from '../engine/types';
 import { createDecoder } from './decode';
 
@@ -305,6 +306,12 @@ export function importSessionFile(input: ArrayLike<number> | ArrayBuffer, profil
 				: null;
 		return { t: n.t, midi, input };
 	});
-	const session: SessionDocument = { version: 1, tempo: r.bpm, startedAt: new Date(0).toISOString(), events };
+	const session: SessionDocument = {
+		version: 2,
+		tempo: r.bpm,
+		startedAt: new Date(0).toISOString(),
+		clock: constantClock(r.bpm, 0),
+		events
+	};
 	return { ok: true, session, unmapped: r.unmapped, warnings: r.warnings };
 }

@@ -1,7 +1,7 @@
 // Records a rehearsal without loss: events are cut into numbered chunks every 2 s and when the
 // page is hidden (sent then with sendBeacon), kept in IndexedDB until the server confirms them,
 // and sent again after an outage or a reload. A reload resumes the unfinished recording.
-import type { SessionEvent } from '$lib/engine';
+import type { SessionClock, SessionEvent, SessionStart } from '$lib/engine';
 import type { UseStore } from 'idb-keyval';
 import { ChunkQueue, type ActiveRecording, type Chunk, type SyncStore } from './chunk-queue';
 import { uploadAudio } from './upload';
@@ -11,6 +11,10 @@ export type RecorderStatus = 'idle' | 'starting' | 'recording' | 'stopping' | 's
 export interface RecorderOptions {
 	mappingId: string;
 	tempo: () => number;
+	/** The beat clock and rig when recording begins (asked at the take's first instant). */
+	snapshot?: () => { clock: SessionClock; initial: SessionStart } | undefined;
+	/** The take's beat clock with its tempo changes, sent when the recording ends. */
+	clock?: () => SessionClock | undefined;
 	flushEveryMs?: number;
 	store?: UseStore; // IndexedDB store for the outbox (tests give their own)
 	sync?: SyncStore; // synchronous storage for the recording's record (default localStorage)
@@ -72,11 +76,13 @@ export class SessionRecorder {
 		this.error = null;
 		try {
 			const startedAt = new Date();
+			const start = this.#options.snapshot?.();
 			const response = await this.#json('/api/sessions', {
 				mappingId: this.#options.mappingId,
 				name: name?.trim() || undefined,
 				tempo: this.#options.tempo(),
-				startedAt: startedAt.toISOString()
+				startedAt: startedAt.toISOString(),
+				...start
 			});
 			const { id, name: given } = response as { id: string; name: string };
 			this.#recording = {
@@ -133,7 +139,7 @@ export class SessionRecorder {
 		try {
 			const result = (await this.#json(
 				`/api/sessions/${recording.sessionId}`,
-				{ finish: true, name: name?.trim() || undefined },
+				{ finish: true, name: name?.trim() || undefined, clock: this.#options.clock?.() },
 				'PATCH'
 			)) as { findings: number };
 			if (audio) await this.#upload(recording.sessionId, audio);

@@ -6,7 +6,10 @@ import { createActor, type Actor } from 'xstate';
 import {
 	initialRigState,
 	rigMachine,
+	sessionStart,
+	withTempo,
 	type InputEvent,
+	type SessionClock,
 	type Mapping,
 	type RigChangesEmitted,
 	type RigState,
@@ -84,6 +87,7 @@ export class RehearsalRoom {
 	#countInTimer: ReturnType<typeof setTimeout> | undefined;
 	#countIn: { from: number; to: number } | null = null;
 	#taps = new TapTempo();
+	#take: { start: number; clock: SessionClock } | null = null; // room time and beat clock of the recording
 
 	constructor({ mappingId, mapping, now = () => performance.now(), recorder, controllers }: RoomOptions) {
 		this.mapping = mapping;
@@ -93,7 +97,14 @@ export class RehearsalRoom {
 		this.clock = new RoomClock(this.tempo, 0);
 		this.state = initialRigState(mapping);
 		this.controllers = controllers ?? new ControllerRig(mapping.profile);
-		this.recorder = recorder ?? new SessionRecorder({ mappingId, tempo: () => this.clock.tempo });
+		this.recorder =
+			recorder ??
+			new SessionRecorder({
+				mappingId,
+				tempo: () => this.clock.tempo,
+				snapshot: () => this.#takeStart(),
+				clock: () => this.#take?.clock
+			});
 		this.findings = new LiveFindings(mapping);
 		this.sound = new RoomSound(this.clock, () => this.roomNow());
 	}
@@ -145,7 +156,8 @@ export class RehearsalRoom {
 		const now = this.roomNow();
 		this.clock.retime(next, now);
 		this.tempo = next;
-		this.#actor?.send({ type: 'tempo', bpm: next, origin: this.clock.origin });
+		this.#actor?.send({ type: 'tempo', bpm: next, origin: this.clock.origin, at: now });
+		if (this.#take) this.#take.clock = withTempo(this.#take.clock, next, now - this.#take.start);
 		this.sound.retime(next, now);
 	}
 
@@ -208,6 +220,16 @@ export class RehearsalRoom {
 		this.findings.reset();
 		this.controllers.show(this.lit);
 		this.sound.sync(this.state);
+	}
+
+	/** The rig and beat clock as they stand now, on the clock of a take starting now. */
+	#takeStart() {
+		if (!this.#actor) return undefined;
+		const now = this.roomNow();
+		const { state, clock } = this.#actor.getSnapshot().context;
+		const start = sessionStart(state, clock, now);
+		this.#take = { start: now, clock: start.clock };
+		return start;
 	}
 
 	#received(e: HubEvent): void {

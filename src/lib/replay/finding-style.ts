@@ -1,16 +1,10 @@
 // How each kind of finding is named and coloured on the replay page: red for sound that is wrong
-// (gone, stuck, on the wrong deck), amber for what needs attention but may still sound right.
-import type { FindingKind } from '$lib/engine';
+// (gone, stuck on, bleeding to the wrong deck, taken over), amber for what needs attention but may still sound right.
+import { FINDING_INFO, type FindingKind } from '$lib/engine';
 
-export const KIND_NAME: Record<FindingKind, string> = {
-	dropout: 'Dropout',
-	'stuck-on': 'Stuck on',
-	bleed: 'Bleed',
-	clash: 'Clash',
-	'count-left-over': 'Count left over',
-	'count-overflow': 'Count overflow',
-	takeover: 'Takeover'
-};
+export const KIND_NAME = Object.fromEntries(
+	Object.entries(FINDING_INFO).map(([kind, info]) => [kind, info.label])
+) as Record<FindingKind, string>;
 
 export const KIND_FILL: Record<FindingKind, string> = {
 	dropout: 'fill-alarm-400',

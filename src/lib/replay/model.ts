@@ -3,11 +3,13 @@
 // audible lane per rack × deck, a step line per counter, and the findings. Pure: no DOM.
 import {
 	analyze,
-	clockFor,
 	initialRigState,
+	inputName,
 	replay,
 	scheduleEvents,
 	sessionEvents,
+	sessionReplay,
+	type ReplayOptions,
 	type AudibleInterval,
 	type DeckId,
 	type Finding,
@@ -52,6 +54,7 @@ export interface CounterLane {
 export interface ReplayModel {
 	mapping: Mapping | null;
 	tempo: number;
+	options: ReplayOptions; // the session's beat clock and starting rig, for every run of its events
 	events: InputEvent[];
 	indexes: number[]; // replay event k → session event index
 	times: number[]; // when replay event k lands (quantized presses wait for their grid line)
@@ -63,8 +66,9 @@ export interface ReplayModel {
 	duration: number; // ms shown on the plot
 }
 
+/** An input's name as the engine's messages give it (one naming rule: `inputName`). */
 export function inputLabel(mapping: Mapping | null, input: string): string {
-	return mapping?.profile.inputs.find((i) => i.id === input)?.label ?? input;
+	return mapping ? inputName(mapping, input) : input;
 }
 
 export function padLanes(mapping: Mapping | null, events: readonly InputEvent[]): PadLane[] {
@@ -111,9 +115,9 @@ export function audibleLanes(timeline: Timeline, findings: readonly Finding[]): 
 	return [...lanes.values()].sort((a, b) => a.rack - b.rack || a.deck.localeCompare(b.deck));
 }
 
-export function counterLanes(mapping: Mapping, timeline: Timeline): CounterLane[] {
+export function counterLanes(mapping: Mapping, timeline: Timeline, start = initialRigState(mapping)): CounterLane[] {
 	return mapping.counters.map((c) => {
-		const steps = [{ t: 0, value: initialRigState(mapping).counters[c.id] ?? c.rest }];
+		const steps = [{ t: 0, value: start.counters[c.id] ?? c.rest }];
 		for (const ch of timeline.changes)
 			if (ch.path === `counters.${c.id}`) steps.push({ t: ch.t, value: Number(ch.to) });
 		const peak = steps.reduce((m, s) => Math.max(m, s.value), Math.max(c.rest, 1));
@@ -127,10 +131,12 @@ export function buildReplay(mapping: Mapping | null, session: SessionDocument): 
 	const times = events.map((e) => e.t);
 	let timeline: Timeline | null = null;
 	let findings: Finding[] = [];
+	let options: ReplayOptions = { clock: session.clock };
 	if (mapping) {
-		for (const s of scheduleEvents(mapping, events, clockFor(mapping, tempo))) times[s.index] = s.at;
-		timeline = replay(mapping, events, { tempo });
-		findings = analyze(mapping, events, { tempo });
+		options = sessionReplay(mapping, session);
+		for (const s of scheduleEvents(mapping, events, session.clock)) times[s.index] = s.at;
+		timeline = replay(mapping, events, options);
+		findings = analyze(mapping, events, options);
 	}
 	let last = session.events.at(-1)?.t ?? 0;
 	for (const t of times) if (t > last) last = t;
@@ -138,6 +144,7 @@ export function buildReplay(mapping: Mapping | null, session: SessionDocument): 
 	return {
 		mapping,
 		tempo,
+		options,
 		events,
 		indexes,
 		times,
@@ -145,7 +152,7 @@ export function buildReplay(mapping: Mapping | null, session: SessionDocument): 
 		findings,
 		pads: padLanes(mapping, events),
 		audible: timeline ? audibleLanes(timeline, findings) : [],
-		counters: mapping && timeline ? counterLanes(mapping, timeline) : [],
+		counters: mapping && timeline ? counterLanes(mapping, timeline, options.from) : [],
 		duration: last === 0 ? 4000 : last + Math.max(500, last * 0.05)
 	};
 }

@@ -1,7 +1,7 @@
 // The rig state at any moment of a replay, fast enough to follow a dragged cursor: the engine
 // runs once and keeps a snapshot every `every` applied events; a seek starts from the nearest
 // snapshot at or before it and applies the few events after it with the same `applyEvent`.
-import { applyEvent, runEvents, type InputEvent, type Mapping, type RigState } from '$lib/engine';
+import { applyEvent, runEvents, type InputEvent, type Mapping, type ReplayOptions, type RigState } from '$lib/engine';
 
 export class RigSnapshots {
 	readonly at: number[] = []; // landing time of each applied event, in applied order (ascending)
@@ -12,10 +12,11 @@ export class RigSnapshots {
 	constructor(
 		private readonly mapping: Mapping,
 		private readonly events: readonly InputEvent[],
-		tempo: number,
+		options: number | ReplayOptions, // a session's replay options, or a constant tempo
 		private readonly every = 64
 	) {
-		this.#final = runEvents(mapping, events, { tempo }, (_result, before, index, at) => {
+		const run = typeof options === 'number' ? { tempo: options } : options;
+		this.#final = runEvents(mapping, events, run, (_result, before, index, at) => {
 			if (this.order.length % every === 0) this.#snapshots.push(before);
 			this.order.push(index);
 			this.at.push(at);

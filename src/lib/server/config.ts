@@ -34,3 +34,13 @@ export function publicOrigin(): string {
 export function demoEnabled(): boolean {
 	return !isProduction() || process.env.PADPROOF_DEMO === '1';
 }
+
+/** The sign-in throttle is on unless `PADPROOF_RATE_LIMIT=off` (the browser tests set that). */
+export function rateLimitEnabled(): boolean {
+	return process.env.PADPROOF_RATE_LIMIT !== 'off';
+}
+
+/** A header set by a proxy you run (e.g. `x-forwarded-for`), trusted for the client address; none by default. */
+export function addressHeader(): string | undefined {
+	return process.env.ADDRESS_HEADER?.trim().toLowerCase() || undefined;
+}

@@ -1,10 +1,6 @@
-// Outgoing mail through nodemailer. With SMTP_URL set it sends for real; otherwise the local
-// outbox folder stands in for the mail service (one .eml file per message, read back by the
-// outbox page with mailparser so encoded lines show as written).
-import nodemailer from 'nodemailer';
 import { simpleParser } from 'mailparser';
-import { mkdirSync, readdirSync } from 'node:fs';
-import { readFile, writeFile } from 'node:fs/promises';
+import nodemailer from 'nodemailer';
+import { mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { outboxDir } from './config';
 
@@ -12,14 +8,16 @@ export interface Mail {
 	to: string;
 	subject: string;
 	text: string;
+	/** An HTML alternative of `text`; the message is then multipart/alternative. */
 	html?: string;
 }
 
-const from = () => process.env.MAIL_FROM ?? 'Padproof <no-reply@padproof.local>';
+const FROM = process.env.MAIL_FROM ?? 'Padproof <no-reply@padproof.local>';
 
 /** Sends through SMTP_URL when set; otherwise writes the message to the local outbox folder. */
 export async function sendMail(mail: Mail): Promise<void> {
-	const message = { from: from(), ...mail, textEncoding: 'quoted-printable' as const };
+	// Quoted-printable keeps the text readable on the wire, folded at 76 characters (RFC 2045 §6.7).
+	const message = { from: FROM, ...mail, textEncoding: 'quoted-printable' as const };
 	if (process.env.SMTP_URL) {
 		await nodemailer.createTransport(process.env.SMTP_URL).sendMail(message);
 		return;
@@ -29,7 +27,7 @@ export async function sendMail(mail: Mail): Promise<void> {
 	const dir = outboxDir();
 	mkdirSync(dir, { recursive: true });
 	const name = `${new Date().toISOString().replace(/[:.]/g, '-')}-${Math.random().toString(36).slice(2, 8)}.eml`;
-	await writeFile(join(dir, name), info.message as Buffer);
+	writeFileSync(join(dir, name), info.message as Buffer);
 }
 
 export interface OutboxEntry {
@@ -40,7 +38,7 @@ export interface OutboxEntry {
 	body: string;
 }
 
-/** The newest messages of the local outbox, decoded (quoted-printable, base64, encoded words). */
+/** The newest messages of the local outbox, decoded (headers, transfer encodings, charsets). */
 export async function readOutbox(limit = 50): Promise<OutboxEntry[]> {
 	const dir = outboxDir();
 	const files = readdirSync(dir)
@@ -50,15 +48,9 @@ export async function readOutbox(limit = 50): Promise<OutboxEntry[]> {
 		.slice(0, limit);
 	return Promise.all(
 		files.map(async (file) => {
-			const parsed = await simpleParser(await readFile(join(dir, file)));
-			const to = Array.isArray(parsed.to) ? parsed.to.map((a) => a.text).join(', ') : (parsed.to?.text ?? '');
-			return {
-				file,
-				to,
-				subject: parsed.subject ?? '',
-				date: parsed.date?.toISOString() ?? '',
-				body: parsed.text ?? ''
-			};
+			const mail = await simpleParser(readFileSync(join(dir, file)));
+			const to = Array.isArray(mail.to) ? mail.to.map((a) => a.text).join(', ') : (mail.to?.text ?? '');
+			return { file, to, subject: mail.subject ?? '', date: mail.date?.toUTCString() ?? '', body: mail.text ?? '' };
 		})
 	);
 }

@@ -3,10 +3,15 @@
 // once. The session document is the chunks in number order.
 import {
 	analyze,
+	clockSchema,
+	constantClock,
 	parseSession,
 	sessionEvents,
-	sessionSchema,
+	sessionEventsSchema,
+	sessionReplay,
+	sessionStartSchema,
 	type Mapping,
+	type SessionClock,
 	type SessionDocument,
 	type SessionEvent
 } from '$lib/engine';
@@ -22,14 +27,17 @@ export const MAX_CHUNK_EVENTS = 5000;
 
 export const chunkSchema = z.object({
 	seq: z.number().int().min(0).max(10_000_000),
-	events: sessionSchema.shape.events.element.array().max(MAX_CHUNK_EVENTS)
+	events: sessionEventsSchema.element.array().max(MAX_CHUNK_EVENTS)
 });
 
 export const newRehearsalSchema = z.object({
 	mappingId: z.string().min(1).max(64),
 	name: z.string().trim().max(120).optional(),
 	tempo: z.number().min(40).max(300),
-	startedAt: z.iso.datetime({ offset: true }).optional()
+	startedAt: z.iso.datetime({ offset: true }).optional(),
+	// The beat clock and the rig as they stood when recording began, on the take's clock.
+	clock: clockSchema.optional(),
+	initial: sessionStartSchema.optional()
 });
 
 export type RehearsalRow = typeof rehearsal.$inferSelect;
@@ -54,7 +62,9 @@ export async function createRehearsal(db: Database, userId: string, input: z.inf
 		mappingName: m.name,
 		name,
 		tempo: input.tempo,
-		startedAt
+		startedAt,
+		clock: input.clock ?? null,
+		initial: input.initial ?? null
 	});
 	return { id, name };
 }
@@ -99,7 +109,17 @@ export async function sessionDocument(
 	const events = chunks.flatMap((c) => c.events as SessionEvent[]);
 	// Chunks from two tabs or a late offline queue can interleave in time; keep time order, stably.
 	events.sort((a, b) => a.t - b.t);
-	return { row, session: { version: 1, tempo: row.tempo, startedAt: row.startedAt, mapping: row.mappingName, events } };
+	const session: SessionDocument = {
+		version: 2,
+		tempo: row.tempo,
+		startedAt: row.startedAt,
+		mapping: row.mappingName,
+		// Recordings from before version 2 have no stored clock: beat 0 at 0, constant tempo.
+		clock: row.clock ?? constantClock(row.tempo, 0),
+		...(row.initial && { initial: row.initial }),
+		events
+	};
+	return { row, session };
 }
 
 async function pinnedMapping(db: Database, row: RehearsalRow): Promise<Mapping | null> {
@@ -112,10 +132,14 @@ async function pinnedMapping(db: Database, row: RehearsalRow): Promise<Mapping |
 }
 
 /** Ends the recording: names it, counts its findings against the mapping version it was played with. */
-export async function finishRehearsal(db: Database, userId: string, id: string, name?: string) {
+export async function finishRehearsal(db: Database, userId: string, id: string, name?: string, clock?: SessionClock) {
+	if (clock) {
+		await mine(db, userId, id);
+		await db.update(rehearsal).set({ clock }).where(eq(rehearsal.id, id));
+	}
 	const { row, session } = await sessionDocument(db, userId, id);
 	const doc = await pinnedMapping(db, row);
-	const findings = doc ? analyze(doc, sessionEvents(session).events, { tempo: session.tempo }) : [];
+	const findings = doc ? analyze(doc, sessionEvents(session).events, sessionReplay(doc, session)) : [];
 	await db
 		.update(rehearsal)
 		.set({ status: 'saved', name: name?.trim() || row.name, findingCount: findings.length })
@@ -171,7 +195,9 @@ export async function importSession(db: Database, userId: string, mappingId: str
 		mappingId,
 		name: name || 'Imported session',
 		tempo: parsed.session.tempo,
-		startedAt: parsed.session.startedAt
+		startedAt: parsed.session.startedAt,
+		clock: parsed.session.clock,
+		initial: parsed.session.initial
 	});
 	const events = parsed.session.events;
 	for (let seq = 0; seq * MAX_CHUNK_EVENTS < Math.max(events.length, 1); seq++) {

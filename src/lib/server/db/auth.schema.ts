@@ -1,4 +1,5 @@
-// Tables better-auth reads and writes (its documented core schema), plus our `role` field.
+// Tables better-auth reads and writes (its documented core schema) with the fields of its admin
+// plugin (role, banned, banReason, banExpires; impersonatedBy on session).
 import { sql } from 'drizzle-orm';
 import { index, integer, sqliteTable, text } from 'drizzle-orm/sqlite-core';
 
@@ -16,6 +17,9 @@ export const user = sqliteTable('user', {
 	role: text({ enum: ['admin', 'teacher', 'student'] })
 		.default('student')
 		.notNull(),
+	banned: integer({ mode: 'boolean' }).default(false),
+	banReason: text(),
+	banExpires: integer({ mode: 'timestamp_ms' }),
 	createdAt: createdAt(),
 	updatedAt: createdAt().$onUpdate(() => new Date())
 });
@@ -30,6 +34,7 @@ export const session = sqliteTable(
 		updatedAt: createdAt().$onUpdate(() => new Date()),
 		ipAddress: text(),
 		userAgent: text(),
+		impersonatedBy: text(),
 		userId: text()
 			.notNull()
 			.references(() => user.id, { onDelete: 'cascade' })

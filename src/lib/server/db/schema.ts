@@ -1,6 +1,7 @@
 import { sql } from 'drizzle-orm';
 import { index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
 import { user } from './auth.schema';
+import type { SessionClock, SessionStart } from '../../engine/types';
 
 export * from './auth.schema';
 
@@ -67,6 +68,9 @@ export const rehearsal = sqliteTable(
 		name: text().notNull(),
 		tempo: real().notNull(),
 		startedAt: text().notNull(),
+		// The beat clock and the rig as they stood when recording began (session version 2).
+		clock: text({ mode: 'json' }).$type<SessionClock>(),
+		initial: text({ mode: 'json' }).$type<SessionStart>(),
 		status: text({ enum: ['recording', 'saved'] })
 			.default('recording')
 			.notNull(),
@@ -96,6 +100,17 @@ export const rehearsalChunk = sqliteTable(
 	},
 	(t) => [primaryKey({ columns: [t.rehearsalId, t.seq] })]
 );
+
+/**
+ * Counters of the sign-in throttle (see `src/lib/server/throttle.ts`): one row per bucket, e.g.
+ * `account:kai@mixlab.example` or `address:203.0.113.7`, kept in the database so that several app
+ * instances share them.
+ */
+export const authThrottle = sqliteTable('auth_throttle', {
+	bucket: text().primaryKey(),
+	hits: integer().notNull(),
+	windowStartedAt: integer().notNull()
+});
 
 // ---- Classes, drills, assignments and submissions (teaching) ----
 

@@ -1,3 +1,4 @@
+import { clockSchema } from '$lib/engine';
 import { db } from '$lib/server/db';
 import { readJson, refusalResponse, signedIn } from '$lib/server/http';
 import { deleteRehearsal, finishRehearsal, renameRehearsal, sessionDocument } from '$lib/server/rehearsals';
@@ -6,7 +7,7 @@ import { json } from '@sveltejs/kit';
 import { z } from 'zod';
 import type { RequestHandler } from './$types';
 
-/** The session document (our format, version 1), as the export and the command-line tool read it. */
+/** The session document (our format, version 2), as the export and the command-line tool read it. */
 export const GET: RequestHandler = async ({ locals, params, url }) => {
 	try {
 		const { row, session } = await sessionDocument(db, signedIn(locals).id, params.id);
@@ -21,13 +22,17 @@ export const GET: RequestHandler = async ({ locals, params, url }) => {
 	}
 };
 
-const Change = z.object({ name: z.string().trim().min(1).max(120).optional(), finish: z.boolean().optional() });
+const Change = z.object({
+	name: z.string().trim().min(1).max(120).optional(),
+	finish: z.boolean().optional(),
+	clock: clockSchema.optional() // the take's beat clock with its tempo changes
+});
 
 export const PATCH: RequestHandler = async ({ locals, params, request }) => {
 	try {
 		const user = signedIn(locals);
 		const body = await readJson(request, Change);
-		if (body.finish) return json(await finishRehearsal(db, user.id, params.id, body.name));
+		if (body.finish) return json(await finishRehearsal(db, user.id, params.id, body.name, body.clock));
 		if (body.name) await renameRehearsal(db, user.id, params.id, body.name);
 		return json({ ok: true });
 	} catch (e) {

@@ -1,0 +1,2 @@
+ALTER TABLE `rehearsal` ADD `clock` text;--> statement-breakpoint
+ALTER TABLE `rehearsal` ADD `initial` text;
