@@ -41,7 +41,13 @@ function session(
 	extra: Record<string, unknown> = {}
 ): SessionDocument {
 	const list: SessionEvent[] = events.map(([t, input, type]) => ({ t, input: { input, type } }));
-	return { version: 1, tempo: 120, startedAt: '2026-01-01T00:00:00.000Z', events: list, ...extra } as SessionDocument;
+	return {
+		version: 1,
+		tempo: 120,
+		startedAt: '2026-01-01T00:00:00.000Z',
+		events: list,
+		...extra
+	} as unknown as SessionDocument;
 }
 
 /** Press and release one pad: the press at `t`, held for `held` ms. */
