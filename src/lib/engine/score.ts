@@ -294,10 +294,12 @@ export function scoreDrill(
 	drill: DrillDocument,
 	mapping: Mapping,
 	session: SessionDocument,
-	found?: readonly Finding[]
+	options: { zero?: number; findings?: readonly Finding[] } = {}
 ): Score {
 	const clock = sessionClock(session);
-	const zero = clock.zero;
+	// Beat 0 of the drill: the session clock's zero, unless the practice run says where it fell.
+	const zero = options.zero ?? clock.zero;
+	const found = options.findings;
 	const presses = sessionPresses(session);
 	const { outcomes, extraPresses } = matchDrill(drill, presses, zero);
 	const hitList = outcomes.filter((o) => o.errorMs !== null);

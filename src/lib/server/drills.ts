@@ -131,10 +131,7 @@ function checkStored(doc: unknown): DrillDocument {
 
 /** Scores a session against a drill with the beat clock zero of the practice run. */
 export function scoreTake(d: DrillDocument, m: Mapping, session: SessionDocument, zero: number) {
-	const withClock = (session as { clock?: unknown }).clock
-		? session
-		: ({ ...session, clock: { zero, tempos: [{ at: zero, bpm: session.tempo }] } } as SessionDocument);
-	return scoreDrill(d, m, withClock);
+	return scoreDrill(d, m, session, { zero });
 }
 
 export const takeInput = z.object({
