@@ -18,7 +18,8 @@ export interface FakeMidiOptions {
 }
 
 interface FakeMidiApi {
-	send(id: string, bytes: number[]): void;
+	/** `timeStamp`: when the message was played on the page's performance clock (default now). */
+	send(id: string, bytes: number[], timeStamp?: number): void;
 	plug(port: FakePort): void;
 	unplug(id: string): void;
 	sent(id: string): number[][];
@@ -120,10 +121,13 @@ function install(options: FakeMidiOptions) {
 	});
 
 	window.__fakeMidi = {
-		send(id, bytes) {
+		send(id, bytes, timeStamp) {
 			const port = inputs.get(id);
 			if (!port || port.connection !== 'open') throw new Error(`fake input ${id} is not open`);
-			port.dispatchEvent(new MIDIMessageEvent('midimessage', { data: new Uint8Array(bytes) }));
+			const event = new MIDIMessageEvent('midimessage', { data: new Uint8Array(bytes) });
+			// A device stamps a message when it is played; a busy page may deliver it later.
+			if (timeStamp !== undefined) Object.defineProperty(event, 'timeStamp', { value: timeStamp });
+			port.dispatchEvent(event);
 		},
 		plug,
 		unplug(id) {

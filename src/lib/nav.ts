@@ -12,7 +12,8 @@ const ITEMS: NavItem[] = [
 	{ href: '/sessions', label: 'Sessions' },
 	{ href: '/sounds', label: 'Sounds' },
 	{ href: '/controllers', label: 'Controllers' },
-	{ href: '/classes', label: 'Classes', roles: ['teacher', 'admin'] },
+	{ href: '/classes', label: 'Classes' },
+	{ href: '/drills', label: 'Drills', roles: ['teacher', 'admin'] },
 	{ href: '/admin', label: 'People', roles: ['admin'] }
 ];
 

@@ -1,4 +1,4 @@
-// `npm run padproof -- lint|verify|replay ...`: the engine from a terminal. Plain text by default,
+// `npm run padproof -- lint|verify|replay|score ...`: the engine from a terminal. Plain text by default,
 // `--json` for machines. Exit codes: 0 nothing found, 1 findings, 2 unreadable input or bad usage.
 // A mapping argument may also be `demo:<slug>` to use one of the demo mappings.
 import { readFileSync } from 'node:fs';
@@ -8,6 +8,7 @@ import { DEMO_MAPPINGS } from '../engine/demo';
 import { lintMapping } from '../engine/lint';
 import { parseMappingText, type Problem } from '../engine/mapping';
 import { replay } from '../engine/replay';
+import { parseDrill, scoreDrill, scoreSummary, type DrillDocument } from '../engine/score';
 import { parseSession, sessionEvents, sessionReplay } from '../engine/session';
 import { FINDING_INFO, numberedFinding } from '../engine/findings';
 import { isStandardMidiFile, takeFromMidiFile } from '../midi/smf';
@@ -30,9 +31,12 @@ Usage:
       findings: ${Object.values(FINDING_INFO)
 				.map((i) => i.label.toLowerCase())
 				.join(', ')}.
+  padproof score <drill.json> <mapping.json> <session.json> [--json]
+      Score a session against a drill: hits, misses, extras, timing errors, hold lengths,
+      findings, and whether it passes (exit 0 pass, 1 not passed).
 
 A mapping may be demo:${DEMO_MAPPINGS.map((d) => d.slug).join(' | demo:')}.
-Exit codes: 0 nothing found, 1 findings, 2 unreadable input or bad usage.`;
+Exit codes: 0 nothing found (score: passed), 1 findings (score: not passed), 2 unreadable input or bad usage.`;
 
 export interface CliResult {
 	code: 0 | 1 | 2;
@@ -72,6 +76,21 @@ function loadMapping(arg: string): Mapping {
 	const r = parseMappingText(readText(arg));
 	if (!r.ok) throw new Unreadable(arg, r.problems);
 	return r.mapping;
+}
+
+function readJsonFile(file: string): unknown {
+	try {
+		return JSON.parse(readText(file));
+	} catch (e) {
+		if (e instanceof Unreadable) throw e;
+		throw new Unreadable(file, [{ path: '(document)', message: `is not valid JSON: ${(e as Error).message}` }]);
+	}
+}
+
+function loadDrill(file: string): DrillDocument {
+	const r = parseDrill(readJsonFile(file));
+	if (!r.ok) throw new Unreadable(file, r.problems);
+	return r.drill;
 }
 
 /** A session document (JSON) or, as the web import reads it, a Standard MIDI File decoded with the mapping's profile. */
@@ -208,6 +227,26 @@ function replayCommand(a: Args): CliResult {
 	return { code, out: [head, ...lines].join('\n'), err: '' };
 }
 
+const fmt = (v: number | null, unit = ' ms') => (v === null ? '–' : `${v.toFixed(1)}${unit}`);
+
+function scoreCommand(a: Args): CliResult {
+	const drill = loadDrill(need(a.files[0], 'a drill file'));
+	const mapping = loadMapping(need(a.files[1], 'a mapping file'));
+	const session = loadSession(need(a.files[2], 'a session file'), mapping);
+	const s = scoreSummary(scoreDrill(drill, mapping, session));
+	const code = s.pass ? 0 : 1;
+	if (a.json) return { code, out: json({ drill: drill.name, mapping: mapping.name, ...s }), err: '' };
+	const kinds = Object.entries(s.findingKinds).map(([k, n]) => `${n} ${k}`);
+	const out = [
+		`${drill.name} on ${mapping.name}: ${s.pass ? 'passed' : 'not passed'}`,
+		`  hits ${s.hits} of ${s.hits + s.misses} (${(s.hitRate * 100).toFixed(1)} %), misses ${s.misses}, extras ${s.extras}`,
+		`  timing: mean ${fmt(s.meanSignedMs)} (negative = early), mean |error| ${fmt(s.meanAbsMs)}, median ${fmt(s.medianAbsMs)}, p95 ${fmt(s.p95AbsMs)}`,
+		`  hold length: mean |error| ${fmt(s.holdMeanAbsMs)}`,
+		`  findings: ${s.findings}${kinds.length ? ` (${kinds.join(', ')})` : ''}; allowed ${drill.pass.findings}, pass mark ${(drill.pass.hitRate * 100).toFixed(0)} % hits`
+	];
+	return { code, out: out.join('\n'), err: '' };
+}
+
 const count = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? one : many}`;
 
 function need(v: string | undefined, what: string): string {
@@ -222,6 +261,7 @@ export function runCli(argv: string[]): CliResult {
 		if (a.command === 'lint') return lint(a);
 		if (a.command === 'verify') return verify(a);
 		if (a.command === 'replay') return replayCommand(a);
+		if (a.command === 'score') return scoreCommand(a);
 		throw new Usage(`unknown command "${a.command}"`);
 	} catch (e) {
 		if (e instanceof Unreadable) {

@@ -42,3 +42,21 @@ export {
 	type RigChangesEmitted,
 	type RigContext
 } from './machines/rig';
+export {
+	parseDrill,
+	drillSchema,
+	scoreDrill,
+	scoreSummary,
+	sessionClock,
+	sessionPresses,
+	targetTime,
+	drillDuration,
+	matchDrill,
+	BEATS_PER_BAR,
+	MAX_TARGETS,
+	type DrillDocument,
+	type DrillTarget,
+	type Score,
+	type ScoreSummary,
+	type TargetOutcome
+} from './score';

@@ -7,6 +7,10 @@ import { discardUnread, readBytes, Refusal, refusalResponse, tooLarge } from './
 /** Bodies of pages, form actions and the auth endpoints (1 MiB); JSON API routes set their own. */
 export const GENERAL_BODY_LIMIT = 1 << 20;
 
+/** A submission form carries its audio file (up to 50 MB); its action checks that size itself. */
+const FORM_UPLOAD_ROUTES = new Set(['/(app)/assignments/[id]']);
+const FORM_UPLOAD_LIMIT = 51 * 1024 * 1024;
+
 /** SvelteKit endpoints under /api read their bodies through readJson/receiveUpload, with limits of their own. */
 const ownLimit = (event: RequestEvent) => event.route.id?.startsWith('/api/') ?? false;
 
@@ -14,15 +18,16 @@ const ownLimit = (event: RequestEvent) => event.route.id?.startsWith('/api/') ??
 export async function limitBody(event: RequestEvent): Promise<Response | null> {
 	const request = event.request;
 	if (!request.body || ownLimit(event)) return null;
+	const limit = FORM_UPLOAD_ROUTES.has(event.route.id ?? '') ? FORM_UPLOAD_LIMIT : GENERAL_BODY_LIMIT;
 	const declared = request.headers.get('content-length');
 	if (declared !== null) {
-		if (Number(declared) <= GENERAL_BODY_LIMIT) return null;
+		if (Number(declared) <= limit) return null;
 		discardUnread(request);
-		return refusalResponse(new Refusal(413, tooLarge(GENERAL_BODY_LIMIT)));
+		return refusalResponse(new Refusal(413, tooLarge(limit)));
 	}
 	// A body without a declared length is read here, under the limit, and handed on whole.
 	try {
-		const body = await readBytes(request, GENERAL_BODY_LIMIT);
+		const body = await readBytes(request, limit);
 		event.request = new Request(request.url, { method: request.method, headers: request.headers, body });
 		return null;
 	} catch (e) {

@@ -1,4 +1,4 @@
-import { json } from '@sveltejs/kit';
+import { error as kitError, json } from '@sveltejs/kit';
 import type { z } from 'zod';
 
 /** An error a person can act on, with the HTTP status an API answers it with. */
@@ -104,4 +104,10 @@ export async function readJson<T>(request: Request, schema: z.ZodType<T>, limit 
 export function signedIn<U>(locals: { user: U | null }): U {
 	if (!locals.user) throw new Refusal(401, 'Please sign in first.');
 	return locals.user;
+}
+
+/** For pages and form actions: a Refusal becomes the error page with its status and sentence. */
+export function pageRefusal(e: unknown): never {
+	if (e instanceof Refusal) kitError(e.status, e.message);
+	throw e;
 }

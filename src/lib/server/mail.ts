@@ -16,12 +16,14 @@ const FROM = process.env.MAIL_FROM ?? 'Padproof <no-reply@padproof.local>';
 
 /** Sends through SMTP_URL when set; otherwise writes the message to the local outbox folder. */
 export async function sendMail(mail: Mail): Promise<void> {
+	// Quoted-printable keeps the text readable on the wire, folded at 76 characters (RFC 2045 §6.7).
+	const message = { from: FROM, ...mail, textEncoding: 'quoted-printable' as const };
 	if (process.env.SMTP_URL) {
-		await nodemailer.createTransport(process.env.SMTP_URL).sendMail({ from: FROM, ...mail });
+		await nodemailer.createTransport(process.env.SMTP_URL).sendMail(message);
 		return;
 	}
 	const transport = nodemailer.createTransport({ streamTransport: true, buffer: true, newline: 'unix' });
-	const info = await transport.sendMail({ from: FROM, ...mail });
+	const info = await transport.sendMail(message);
 	const dir = outboxDir();
 	mkdirSync(dir, { recursive: true });
 	const name = `${new Date().toISOString().replace(/[:.]/g, '-')}-${Math.random().toString(36).slice(2, 8)}.eml`;

@@ -6,6 +6,7 @@ import { randomUUID } from 'node:crypto';
 import { limits } from './config';
 import type { Database } from './db';
 import { mapping, mappingVersion, rehearsal, user } from './db/schema';
+import { sharedWith } from './classes';
 import { Refusal } from './http';
 
 export type Visibility = 'private' | 'public';
@@ -75,7 +76,12 @@ export async function getMapping(db: Database, userId: string, id: string, versi
 		.from(mapping)
 		.innerJoin(user, eq(user.id, mapping.ownerId))
 		.where(eq(mapping.id, id));
-	if (!row || row.m.deletedAt || (row.m.ownerId !== userId && row.m.visibility !== 'public')) {
+	// A private mapping is also readable by the members of a class it is shared with.
+	if (
+		!row ||
+		row.m.deletedAt ||
+		(row.m.ownerId !== userId && row.m.visibility !== 'public' && !(await sharedWith(db, userId, id)))
+	) {
 		throw new Refusal(404, 'That mapping does not exist, or it is private to someone else.');
 	}
 	const versions = await db

@@ -133,3 +133,153 @@ export const authThrottle = sqliteTable('auth_throttle', {
 	hits: integer().notNull(),
 	windowStartedAt: integer().notNull()
 });
+
+// ---- Classes, drills, assignments and submissions (teaching) ----
+
+/** A teacher's class; students join by invitation or by its join code. */
+export const schoolClass = sqliteTable(
+	'school_class',
+	{
+		id: text().primaryKey(),
+		teacherId: text()
+			.notNull()
+			.references(() => user.id, { onDelete: 'cascade' }),
+		name: text().notNull(),
+		joinCode: text().notNull().unique(),
+		createdAt: now()
+	},
+	(t) => [index('school_class_teacher_idx').on(t.teacherId)]
+);
+
+export const classMember = sqliteTable(
+	'class_member',
+	{
+		classId: text()
+			.notNull()
+			.references(() => schoolClass.id, { onDelete: 'cascade' }),
+		userId: text()
+			.notNull()
+			.references(() => user.id, { onDelete: 'cascade' }),
+		joinedAt: now()
+	},
+	(t) => [primaryKey({ columns: [t.classId, t.userId] }), index('class_member_user_idx').on(t.userId)]
+);
+
+/** An e-mail invitation; its token is the link. Accepted once, by whoever signs in with it. */
+export const classInvite = sqliteTable('class_invite', {
+	token: text().primaryKey(),
+	classId: text()
+		.notNull()
+		.references(() => schoolClass.id, { onDelete: 'cascade' }),
+	email: text().notNull(),
+	createdAt: now(),
+	acceptedAt: integer({ mode: 'timestamp_ms' }),
+	acceptedBy: text().references(() => user.id, { onDelete: 'set null' })
+});
+
+/** A mapping shared with a class: its members may open and rehearse it. */
+export const classMapping = sqliteTable(
+	'class_mapping',
+	{
+		classId: text()
+			.notNull()
+			.references(() => schoolClass.id, { onDelete: 'cascade' }),
+		mappingId: text()
+			.notNull()
+			.references(() => mapping.id, { onDelete: 'cascade' }),
+		sharedAt: now()
+	},
+	(t) => [primaryKey({ columns: [t.classId, t.mappingId] })]
+);
+
+/** A drill (DESIGN.md §4.8): its document, and the mapping version it is played on. */
+export const drill = sqliteTable(
+	'drill',
+	{
+		id: text().primaryKey(),
+		ownerId: text()
+			.notNull()
+			.references(() => user.id, { onDelete: 'cascade' }),
+		mappingId: text()
+			.notNull()
+			.references(() => mapping.id, { onDelete: 'cascade' }),
+		mappingVersionId: text()
+			.notNull()
+			.references(() => mappingVersion.id, { onDelete: 'cascade' }),
+		name: text().notNull(),
+		document: text({ mode: 'json' }).notNull(),
+		createdAt: now(),
+		updatedAt: now().$onUpdate(() => new Date())
+	},
+	(t) => [index('drill_owner_idx').on(t.ownerId)]
+);
+
+/** A drill given to a class with a due date. */
+export const assignment = sqliteTable(
+	'assignment',
+	{
+		id: text().primaryKey(),
+		classId: text()
+			.notNull()
+			.references(() => schoolClass.id, { onDelete: 'cascade' }),
+		drillId: text()
+			.notNull()
+			.references(() => drill.id, { onDelete: 'cascade' }),
+		dueAt: integer({ mode: 'timestamp_ms' }).notNull(),
+		createdAt: now()
+	},
+	(t) => [index('assignment_class_idx').on(t.classId)]
+);
+
+/** One try at a drill in the rehearsal room: the session, where its beat 0 fell, and its score. */
+export const drillTake = sqliteTable(
+	'drill_take',
+	{
+		rehearsalId: text()
+			.primaryKey()
+			.references(() => rehearsal.id, { onDelete: 'cascade' }),
+		drillId: text()
+			.notNull()
+			.references(() => drill.id, { onDelete: 'cascade' }),
+		userId: text()
+			.notNull()
+			.references(() => user.id, { onDelete: 'cascade' }),
+		zero: real().notNull(),
+		score: text({ mode: 'json' }).notNull(),
+		hitRate: real().notNull(),
+		pass: integer({ mode: 'boolean' }).notNull(),
+		createdAt: now()
+	},
+	(t) => [index('drill_take_user_idx').on(t.userId, t.drillId)]
+);
+
+/** A student's session handed in for an assignment, with an optional audio file and the teacher's review. */
+export const submission = sqliteTable(
+	'submission',
+	{
+		id: text().primaryKey(),
+		assignmentId: text()
+			.notNull()
+			.references(() => assignment.id, { onDelete: 'cascade' }),
+		studentId: text()
+			.notNull()
+			.references(() => user.id, { onDelete: 'cascade' }),
+		rehearsalId: text()
+			.notNull()
+			.references(() => rehearsal.id, { onDelete: 'cascade' }),
+		submittedAt: now(),
+		late: integer({ mode: 'boolean' }).notNull(),
+		score: text({ mode: 'json' }).notNull(),
+		hitRate: real().notNull(),
+		pass: integer({ mode: 'boolean' }).notNull(),
+		audioFile: text(),
+		audioType: text(),
+		grade: text(),
+		comment: text(),
+		gradedAt: integer({ mode: 'timestamp_ms' })
+	},
+	(t) => [
+		index('submission_assignment_idx').on(t.assignmentId),
+		uniqueIndex('submission_one_per_student').on(t.assignmentId, t.studentId)
+	]
+);

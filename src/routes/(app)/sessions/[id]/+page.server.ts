@@ -1,4 +1,5 @@
 import { error } from '@sveltejs/kit';
+import { submissionFor } from '$lib/server/assignments';
 import { db } from '$lib/server/db';
 import { Refusal } from '$lib/server/http';
 import { getMapping, listMappings } from '$lib/server/mappings';
@@ -39,10 +40,19 @@ async function againstMapping(userId: string, id: string | null, versionParam: s
 	}
 }
 
+/** Whose session to read: the user's own, or a student's reached through a submission to the user's class. */
+async function sessionOwner(userId: string, id: string, submissionId: string | null): Promise<string> {
+	if (!submissionId) return userId;
+	const s = await submissionFor(db, userId, submissionId).catch(refused);
+	if (s.rehearsalId !== id) error(404, 'That session does not exist, or it belongs to someone else.');
+	return s.studentId;
+}
+
 export const load: PageServerLoad = async ({ locals, params, url }) => {
 	const user = requireArea(locals, 'app');
+	const owner = await sessionOwner(user.id, params.id, url.searchParams.get('submission'));
 	const [rehearsal, mappings, other] = await Promise.all([
-		getRehearsal(db, user.id, params.id).catch(refused),
+		getRehearsal(db, owner, params.id).catch(refused),
 		listMappings(db, user.id),
 		againstMapping(user.id, url.searchParams.get('against'), url.searchParams.get('version'))
 	]);

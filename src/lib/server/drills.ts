@@ -1,0 +1,195 @@
+// Drills (DESIGN.md §4.8) and tries at them. A teacher owns a drill and pins the mapping version
+// it is played on; a student reaches a drill only through an assignment to a class they joined.
+// A try ("take") is one of the student's recorded sessions with the beat clock's zero of the
+// practice run; Padproof scores it here, on the server, with the engine's scoring.
+import {
+	parseDrill,
+	scoreDrill,
+	scoreSummary,
+	type DrillDocument,
+	type Mapping,
+	type Problem,
+	type ScoreSummary,
+	type SessionDocument
+} from '$lib/engine';
+import { and, desc, eq, inArray } from 'drizzle-orm';
+import { randomUUID } from 'node:crypto';
+import { z } from 'zod';
+import type { Database } from './db';
+import { assignment, classMember, drill, drillTake, mappingVersion, schoolClass } from './db/schema';
+import { Refusal } from './http';
+import { getMapping, storedDocument } from './mappings';
+import { sessionDocument } from './rehearsals';
+
+export type DrillRow = typeof drill.$inferSelect;
+
+/** A drill document checked against the mapping it is played on: every target's pad exists. */
+export function checkDrill(input: unknown, m: Mapping): DrillDocument {
+	const parsed = parseDrill(input);
+	const problems: Problem[] = parsed.ok ? [] : parsed.problems;
+	if (parsed.ok) {
+		const pads = new Set(m.profile.inputs.map((i) => i.id));
+		parsed.drill.targets.forEach((t, i) => {
+			if (!pads.has(t.input))
+				problems.push({ path: `targets[${i}].input`, message: `"${t.input}" is not an input of ${m.name}` });
+		});
+	}
+	if (problems.length || !parsed.ok) {
+		const first = problems[0];
+		throw new Refusal(
+			400,
+			`This is not a valid drill: ${first.path ? first.path + ': ' : ''}${first.message}` +
+				(problems.length > 1 ? ` (and ${problems.length - 1} more)` : ''),
+			problems
+		);
+	}
+	return parsed.drill;
+}
+
+export const drillInput = z.object({
+	mappingId: z.string().min(1, { error: 'Choose the mapping the drill is played on.' }).max(64),
+	document: z.unknown()
+});
+
+export async function createDrill(db: Database, ownerId: string, input: z.infer<typeof drillInput>) {
+	const m = await getMapping(db, ownerId, input.mappingId);
+	const document = checkDrill(input.document, m.document);
+	const id = randomUUID();
+	await db
+		.insert(drill)
+		.values({ id, ownerId, mappingId: m.id, mappingVersionId: m.versionId, name: document.name, document });
+	return id;
+}
+
+/** Saves a changed drill; it moves to the mapping's newest version. */
+export async function updateDrill(db: Database, ownerId: string, id: string, input: z.infer<typeof drillInput>) {
+	await ownDrill(db, ownerId, id);
+	const m = await getMapping(db, ownerId, input.mappingId);
+	const document = checkDrill(input.document, m.document);
+	await db
+		.update(drill)
+		.set({ mappingId: m.id, mappingVersionId: m.versionId, name: document.name, document })
+		.where(eq(drill.id, id));
+}
+
+export async function deleteDrill(db: Database, ownerId: string, id: string) {
+	await ownDrill(db, ownerId, id);
+	await db.delete(drill).where(eq(drill.id, id));
+}
+
+export async function ownDrill(db: Database, ownerId: string, id: string): Promise<DrillRow> {
+	const [row] = await db.select().from(drill).where(eq(drill.id, id));
+	if (!row || row.ownerId !== ownerId) throw new Refusal(404, 'That drill does not exist, or it is not yours.');
+	return row;
+}
+
+export async function listDrills(db: Database, ownerId: string) {
+	return db
+		.select({
+			id: drill.id,
+			name: drill.name,
+			document: drill.document,
+			updatedAt: drill.updatedAt,
+			mappingId: drill.mappingId
+		})
+		.from(drill)
+		.where(eq(drill.ownerId, ownerId))
+		.orderBy(desc(drill.updatedAt));
+}
+
+/** Whether the user may play a drill: its owner, or a member of a class it is assigned to. */
+async function mayPlay(db: Database, userId: string, row: DrillRow): Promise<boolean> {
+	if (row.ownerId === userId) return true;
+	const [via] = await db
+		.select({ id: assignment.id })
+		.from(assignment)
+		.innerJoin(classMember, eq(classMember.classId, assignment.classId))
+		.where(and(eq(assignment.drillId, row.id), eq(classMember.userId, userId)))
+		.limit(1);
+	return Boolean(via);
+}
+
+/** The drill with the mapping document version it is played on. */
+export async function drillFor(db: Database, userId: string, id: string) {
+	const [row] = await db.select().from(drill).where(eq(drill.id, id));
+	if (!row || !(await mayPlay(db, userId, row)))
+		throw new Refusal(404, 'That drill does not exist, or it is not given to you.');
+	const [v] = await db.select().from(mappingVersion).where(eq(mappingVersion.id, row.mappingVersionId));
+	return {
+		row,
+		document: parseDrill(row.document).ok ? (row.document as DrillDocument) : checkStored(row.document),
+		mapping: storedDocument(v.document),
+		mappingVersion: v.version
+	};
+}
+
+function checkStored(doc: unknown): DrillDocument {
+	const r = parseDrill(doc);
+	if (!r.ok) throw new Refusal(500, 'This drill is stored in a shape Padproof cannot read.');
+	return r.drill;
+}
+
+/** Scores a session against a drill with the beat clock zero of the practice run. */
+export function scoreTake(d: DrillDocument, m: Mapping, session: SessionDocument, zero: number) {
+	return scoreDrill(d, m, session, { zero });
+}
+
+export const takeInput = z.object({
+	rehearsalId: z.string().min(1).max(64),
+	drillId: z.string().min(1).max(64),
+	zero: z
+		.number()
+		.min(0)
+		.max(24 * 3600 * 1000)
+});
+
+/** Records one of the user's own sessions as a try at a drill, and scores it. */
+export async function recordTake(db: Database, userId: string, input: z.infer<typeof takeInput>) {
+	const d = await drillFor(db, userId, input.drillId);
+	const { session } = await sessionDocument(db, userId, input.rehearsalId);
+	const score = scoreSummary(scoreTake(d.document, d.mapping, session, input.zero));
+	await db
+		.insert(drillTake)
+		.values({
+			rehearsalId: input.rehearsalId,
+			drillId: input.drillId,
+			userId,
+			zero: input.zero,
+			score,
+			hitRate: score.hitRate,
+			pass: score.pass
+		})
+		.onConflictDoUpdate({
+			target: drillTake.rehearsalId,
+			set: { drillId: input.drillId, zero: input.zero, score, hitRate: score.hitRate, pass: score.pass }
+		});
+	return score;
+}
+
+export async function takesOf(db: Database, userId: string, drillId: string) {
+	const rows = await db
+		.select()
+		.from(drillTake)
+		.where(and(eq(drillTake.userId, userId), eq(drillTake.drillId, drillId)))
+		.orderBy(desc(drillTake.createdAt));
+	return rows.map((r) => ({ ...r, score: r.score as ScoreSummary }));
+}
+
+export async function takeOf(db: Database, rehearsalId: string) {
+	const [row] = await db.select().from(drillTake).where(eq(drillTake.rehearsalId, rehearsalId));
+	return row ? { ...row, score: row.score as ScoreSummary } : null;
+}
+
+/** Classes of a teacher that a drill could be given to. */
+export async function classesOf(db: Database, teacherId: string) {
+	return db
+		.select({ id: schoolClass.id, name: schoolClass.name })
+		.from(schoolClass)
+		.where(eq(schoolClass.teacherId, teacherId));
+}
+
+export async function drillNames(db: Database, ids: string[]) {
+	if (!ids.length) return new Map<string, string>();
+	const rows = await db.select({ id: drill.id, name: drill.name }).from(drill).where(inArray(drill.id, ids));
+	return new Map(rows.map((r) => [r.id, r.name]));
+}

@@ -1,0 +1,17 @@
+// Shapes the teaching pages share between server and browser.
+
+export interface GradebookRow {
+	student: string;
+	email: string;
+	assignment: string;
+	due: string;
+	submitted: string | null;
+	late: boolean | null;
+	hitRate: number | null;
+	meanAbsMs: number | null;
+	findings: number | null;
+	pass: boolean | null;
+	grade: string | null;
+	comment: string | null;
+	submissionId: string | null;
+}

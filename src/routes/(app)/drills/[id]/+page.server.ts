@@ -1,0 +1,41 @@
+import { classesOf, deleteDrill, drillFor, ownDrill, updateDrill } from '$lib/server/drills';
+import { db } from '$lib/server/db';
+import { editorMappings } from '$lib/server/drill-editor';
+import { pageRefusal, Refusal } from '$lib/server/http';
+import { requireArea } from '$lib/server/roles';
+import { fail, redirect } from '@sveltejs/kit';
+import type { Actions, PageServerLoad } from './$types';
+import { readDrillForm } from '../drill-form';
+
+export const load: PageServerLoad = async ({ locals, params, url }) => {
+	const user = requireArea(locals, 'teaching');
+	const row = await ownDrill(db, user.id, params.id).catch(pageRefusal);
+	const d = await drillFor(db, user.id, row.id).catch(pageRefusal);
+	const [mappings, classes] = await Promise.all([editorMappings(db, user.id), classesOf(db, user.id)]);
+	return {
+		drill: { id: row.id, mappingId: row.mappingId, document: d.document, mappingVersion: d.mappingVersion },
+		mappings,
+		classes,
+		saved: url.searchParams.has('saved')
+	};
+};
+
+export const actions: Actions = {
+	save: async ({ locals, params, request }) => {
+		const user = requireArea(locals, 'teaching');
+		const input = readDrillForm(await request.formData());
+		if (!input.ok) return fail(400, { message: input.message });
+		try {
+			await updateDrill(db, user.id, params.id, input.data);
+			return { saved: true };
+		} catch (e) {
+			if (e instanceof Refusal) return fail(e.status, { message: e.message });
+			throw e;
+		}
+	},
+	delete: async ({ locals, params }) => {
+		const user = requireArea(locals, 'teaching');
+		await deleteDrill(db, user.id, params.id).catch(pageRefusal);
+		redirect(303, '/drills');
+	}
+};

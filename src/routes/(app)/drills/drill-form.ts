@@ -1,0 +1,20 @@
+// The drill editor posts the whole document as JSON in one field, with the mapping it is played on.
+import { z } from 'zod';
+
+const form = z.object({
+	mappingId: z.string().min(1, { error: 'Choose the mapping the drill is played on.' }).max(64),
+	document: z.string().min(2).max(2_000_000, { error: 'The drill is too large.' })
+});
+
+export function readDrillForm(data: FormData) {
+	const parsed = form.safeParse({ mappingId: data.get('mappingId'), document: data.get('document') });
+	if (!parsed.success) return { ok: false as const, message: parsed.error.issues[0].message };
+	try {
+		return {
+			ok: true as const,
+			data: { mappingId: parsed.data.mappingId, document: JSON.parse(parsed.data.document) }
+		};
+	} catch {
+		return { ok: false as const, message: 'The drill could not be read; reload the page and try again.' };
+	}
+}

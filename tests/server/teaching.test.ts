@@ -1,0 +1,273 @@
+// Classes, drills, assignments and submissions on a real (temporary) database: the whole path a
+// teacher and a student take, and who may see what. Mail goes to a temporary outbox.
+import { padId, type SessionEvent } from '$lib/engine';
+import {
+	assignmentFor,
+	assignmentsOf,
+	createAssignment,
+	gradebook,
+	review,
+	submissionFor,
+	submit
+} from '$lib/server/assignments';
+import {
+	acceptInvitation,
+	classFor,
+	createClass,
+	inviteByEmail,
+	joinByCode,
+	removeMember,
+	roster,
+	taughtClass
+} from '$lib/server/classes';
+import { schoolClass } from '$lib/server/db/schema';
+import { createDrill, drillFor, recordTake } from '$lib/server/drills';
+import { Refusal } from '$lib/server/http';
+import { readOutbox } from '$lib/server/mail';
+import { createMapping, getMapping, listMappings } from '$lib/server/mappings';
+import { getRehearsal, importSession } from '$lib/server/rehearsals';
+import { listUsers } from '$lib/server/users';
+import { eq } from 'drizzle-orm';
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { demoDatabase } from './factories';
+
+let t: Awaited<ReturnType<typeof demoDatabase>>;
+let outbox = '';
+const ORIGIN = 'http://padproof.test';
+let people: Awaited<ReturnType<typeof listUsers>>;
+const who = (email: string) => people.find((p) => p.email === email)!;
+
+beforeEach(async () => {
+	outbox = mkdtempSync(join(tmpdir(), 'padproof-outbox-'));
+	process.env.MAIL_OUTBOX_DIR = outbox;
+	t = await demoDatabase();
+	people = await listUsers(t.db);
+});
+afterEach(() => {
+	t.close();
+	rmSync(outbox, { recursive: true, force: true });
+	delete process.env.MAIL_OUTBOX_DIR;
+});
+
+const refused = async (p: Promise<unknown>, status: number) => {
+	const e = await p.then(
+		() => null,
+		(x: unknown) => x
+	);
+	expect(e).toBeInstanceOf(Refusal);
+	expect((e as Refusal).status).toBe(status);
+};
+
+// Tempo 120: a beat is 500 ms. Pad 1 on beats 0, 1, 2, 3 of a one-bar drill, half a beat each.
+const drillDoc = {
+	version: 1,
+	name: 'Four on the floor',
+	tempo: 120,
+	countInBars: 1,
+	lengthBars: 1,
+	targets: [0, 1, 2, 3].map((beat) => ({ input: padId(1), beat, beats: 0.5 }))
+};
+const tap = (at: number, held = 250): SessionEvent[] => [
+	{ t: at, input: { input: padId(1), type: 'press' } },
+	{ t: at + held, input: { input: padId(1), type: 'release' } }
+];
+
+/** Teacher Tomas with a class, Kai in it, and a drill given to it; Kai's take is scored. */
+async function scene() {
+	const tomas = who('tomas@mixlab.example');
+	const kai = who('kai@mixlab.example');
+	const classId = await createClass(t.db, tomas.id, 'Tuesday beginners');
+	await inviteByEmail(t.db, tomas, classId, [kai.email], ORIGIN);
+	const mappingId = (await listMappings(t.db, tomas.id)).find((m) => m.name === 'Two-deck pad set')!.id;
+	const drillId = await createDrill(t.db, tomas.id, { mappingId, document: drillDoc });
+	return { tomas, kai, classId, mappingId, drillId };
+}
+
+/** Kai plays the drill: beat 0 at 2000 ms (after a one-bar count-in), presses 10 ms late except one missed. */
+async function kaiTake(kaiId: string, mappingId: string, drillId: string) {
+	const events = [...tap(2010), ...tap(2510), ...tap(3010)];
+	const id = await importSession(t.db, kaiId, mappingId, {
+		version: 1,
+		tempo: 120,
+		startedAt: new Date().toISOString(),
+		events
+	});
+	const score = await recordTake(t.db, kaiId, { rehearsalId: id, drillId, zero: 2000 });
+	return { id, score };
+}
+
+describe('classes', () => {
+	it('a student joins by the invitation link mailed to them', async () => {
+		const { kai, classId } = await scene();
+		const [mail] = await readOutbox();
+		expect(mail.to).toBe(kai.email);
+		expect(mail.subject).toBe('Tomas Reyes invites you to the class “Tuesday beginners”');
+		const link = mail.body.match(/http:\/\/padproof\.test\/join\/([\w-]+)/);
+		expect(link).not.toBeNull();
+		await refused(classFor(t.db, kai.id, classId), 404);
+		expect(await acceptInvitation(t.db, kai, link![1])).toBe(classId);
+		expect((await classFor(t.db, kai.id, classId)).role).toBe('student');
+		expect((await roster(t.db, classId)).map((p) => p.email)).toEqual([kai.email]);
+	});
+
+	it('an invitation works only for the invited address, and only once', async () => {
+		const { classId } = await scene();
+		const [mail] = await readOutbox();
+		const token = mail.body.match(/\/join\/([\w-]+)/)![1];
+		const lena = who('lena@mixlab.example');
+		await refused(acceptInvitation(t.db, lena, token), 403);
+		await refused(classFor(t.db, lena.id, classId), 404);
+		await refused(acceptInvitation(t.db, lena, 'not-a-real-token-at-all'), 404);
+	});
+
+	it('a student joins by the join code; a wrong code is refused', async () => {
+		const { classId } = await scene();
+		const [row] = await t.db.select().from(schoolClass).where(eq(schoolClass.id, classId));
+		const lena = who('lena@mixlab.example');
+		await refused(joinByCode(t.db, lena.id, 'ZZZZ-ZZZZ'), 404);
+		await joinByCode(t.db, lena.id, row.joinCode);
+		expect((await classFor(t.db, lena.id, classId)).role).toBe('student');
+	});
+
+	it("another teacher's class is not found; a student of it can't act as its teacher", async () => {
+		const { classId, kai } = await scene();
+		const ines = who('ines@mixlab.example'); // admin, teaches no class here
+		await refused(taughtClass(t.db, ines.id, classId), 404);
+		await refused(classFor(t.db, ines.id, classId), 404);
+		await refused(gradebook(t.db, ines.id, classId), 404);
+		await refused(removeMember(t.db, ines.id, classId, kai.id), 404);
+		const [mail] = await readOutbox();
+		await acceptInvitation(t.db, kai, mail.body.match(/\/join\/([\w-]+)/)![1]);
+		await refused(taughtClass(t.db, kai.id, classId), 403);
+	});
+
+	it('a private mapping shared with the class opens for its students only', async () => {
+		const { tomas, kai, classId } = await scene();
+		const [mail] = await readOutbox();
+		await acceptInvitation(t.db, kai, mail.body.match(/\/join\/([\w-]+)/)![1]);
+		const doc = (await getMapping(t.db, tomas.id, (await listMappings(t.db, tomas.id))[0].id)).document;
+		const secret = await createMapping(t.db, tomas.id, { document: doc, name: 'Class-only set' });
+		await refused(getMapping(t.db, kai.id, secret), 404);
+		const { shareMapping } = await import('$lib/server/classes');
+		await shareMapping(t.db, tomas.id, classId, secret);
+		expect((await getMapping(t.db, kai.id, secret)).name).toBe('Class-only set');
+		await refused(getMapping(t.db, who('lena@mixlab.example').id, secret), 404);
+	});
+});
+
+describe('drills, assignments and submissions', () => {
+	it('refuses a drill whose target is not a pad of the mapping', async () => {
+		const { tomas, mappingId } = await scene();
+		await refused(
+			createDrill(t.db, tomas.id, {
+				mappingId,
+				document: { ...drillDoc, targets: [{ input: 'pad-99', beat: 0, beats: 1 }] }
+			}),
+			400
+		);
+	});
+
+	it('scores a take, hands it in, reviews it, and keeps everyone else out', async () => {
+		const { tomas, kai, classId, mappingId, drillId } = await scene();
+		const [invite] = await readOutbox();
+		await acceptInvitation(t.db, kai, invite.body.match(/\/join\/([\w-]+)/)![1]);
+		const due = new Date(Date.now() + 86_400_000);
+		const assignmentId = await createAssignment(t.db, tomas, classId, { drillId, dueAt: due }, ORIGIN);
+		expect((await readOutbox())[0].subject).toBe('New drill in Tuesday beginners: Four on the floor');
+		expect((await assignmentsOf(t.db, kai.id)).map((a) => a.drill)).toEqual(['Four on the floor']);
+
+		// Targets at 2000, 2500, 3000, 3500; presses at 2010, 2510, 3010 (+10 ms each); 3500 missed.
+		// hits 3, misses 1, hit rate 0.75 < 0.9: not passed; mean signed +10, held 250 = target length.
+		const { id: take, score } = await kaiTake(kai.id, mappingId, drillId);
+		expect(score).toMatchObject({
+			hits: 3,
+			misses: 1,
+			extras: 0,
+			hitRate: 0.75,
+			meanSignedMs: 10,
+			holdMeanAbsMs: 0,
+			pass: false
+		});
+
+		const lena = who('lena@mixlab.example');
+		await refused(drillFor(t.db, lena.id, drillId), 404);
+		await refused(assignmentFor(t.db, lena.id, assignmentId), 404);
+		await refused(recordTake(t.db, lena.id, { rehearsalId: take, drillId, zero: 0 }), 404);
+
+		const sub = await submit(t.db, kai, assignmentId, take, null, ORIGIN);
+		expect(sub.late).toBe(false);
+		expect((await readOutbox())[0].subject).toBe('Kai Lindqvist handed in Four on the floor');
+
+		// The teacher reaches the take only through the submission; Lena and another teacher don't.
+		await refused(getRehearsal(t.db, tomas.id, take), 404);
+		expect((await submissionFor(t.db, tomas.id, sub.id)).role).toBe('teacher');
+		expect((await submissionFor(t.db, kai.id, sub.id)).score.hits).toBe(3);
+		await refused(submissionFor(t.db, lena.id, sub.id), 404);
+		await refused(submissionFor(t.db, who('ines@mixlab.example').id, sub.id), 404);
+		await refused(review(t.db, kai, sub.id, { grade: 'A', comment: 'me' }, ORIGIN), 403);
+
+		await review(t.db, tomas, sub.id, { grade: 'B+', comment: 'Steady; catch the last beat.' }, ORIGIN);
+		const feedback = (await readOutbox())[0];
+		expect(feedback.to).toBe(kai.email);
+		expect(feedback.subject).toBe('Feedback on Four on the floor: B+');
+		expect(await submissionFor(t.db, kai.id, sub.id)).toMatchObject({
+			grade: 'B+',
+			comment: 'Steady; catch the last beat.'
+		});
+		await refused(submit(t.db, kai, assignmentId, take, null, ORIGIN), 409);
+
+		const book = await gradebook(t.db, tomas.id, classId);
+		expect(book).toEqual([
+			expect.objectContaining({
+				student: 'Kai Lindqvist',
+				assignment: 'Four on the floor',
+				hitRate: 0.75,
+				grade: 'B+',
+				late: false
+			})
+		]);
+		expect((await roster(t.db, classId))[0].averageScore).toBe(0.75);
+	});
+
+	it('marks a submission after the due date late', async () => {
+		const { tomas, kai, classId, mappingId, drillId } = await scene();
+		await acceptInvitation(t.db, kai, (await readOutbox())[0].body.match(/\/join\/([\w-]+)/)![1]);
+		const assignmentId = await createAssignment(
+			t.db,
+			tomas,
+			classId,
+			{ drillId, dueAt: new Date(Date.now() - 60_000) },
+			ORIGIN
+		);
+		const { id } = await kaiTake(kai.id, mappingId, drillId);
+		expect((await submit(t.db, kai, assignmentId, id, null, ORIGIN)).late).toBe(true);
+		expect((await readOutbox())[0].subject).toBe('Kai Lindqvist handed in Four on the floor (late)');
+	});
+
+	it("refuses another student's take and a session that is no take of the drill", async () => {
+		const { tomas, kai, classId, mappingId, drillId } = await scene();
+		const lena = who('lena@mixlab.example');
+		await acceptInvitation(t.db, kai, (await readOutbox())[0].body.match(/\/join\/([\w-]+)/)![1]);
+		const [row] = await t.db.select().from(schoolClass).where(eq(schoolClass.id, classId));
+		await joinByCode(t.db, lena.id, row.joinCode);
+		const assignmentId = await createAssignment(
+			t.db,
+			tomas,
+			classId,
+			{ drillId, dueAt: new Date(Date.now() + 1e7) },
+			ORIGIN
+		);
+		const { id: kaisTake } = await kaiTake(kai.id, mappingId, drillId);
+		await refused(submit(t.db, lena, assignmentId, kaisTake, null, ORIGIN), 400);
+		const plain = await importSession(t.db, lena.id, mappingId, {
+			version: 1,
+			tempo: 120,
+			startedAt: new Date().toISOString(),
+			events: tap(100)
+		});
+		await refused(submit(t.db, lena, assignmentId, plain, null, ORIGIN), 400);
+	});
+});
