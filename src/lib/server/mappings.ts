@@ -1,11 +1,11 @@
 // Mappings in the database: a row per mapping and a row per version of its document. Only the
 // owner changes or deletes a mapping; public mappings can be read (and rehearsed) by everyone.
 import { DEMO_MAPPINGS, lintMapping, parseMapping, type Mapping } from '$lib/engine';
-import { and, count, desc, eq, inArray, isNull, or } from 'drizzle-orm';
+import { and, count, desc, eq, isNull, or } from 'drizzle-orm';
 import { randomUUID } from 'node:crypto';
 import { limits } from './config';
 import type { Database } from './db';
-import { mapping, mappingVersion, rehearsal, user } from './db/schema';
+import { mapping, mappingVersion, user } from './db/schema';
 import { sharedWith } from './classes';
 import { Refusal } from './http';
 

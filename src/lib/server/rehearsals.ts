@@ -4,14 +4,10 @@
 import { documentKind } from '$lib/documents';
 import { buildReplay } from '$lib/replay/model';
 import {
-	analyze,
 	clockSchema,
 	constantClock,
 	parseSession,
-	sessionEvents,
 	sessionEventsSchema,
-	sessionReplay,
-	sessionSchema,
 	sessionStartSchema,
 	type Mapping,
 	type SessionClock,

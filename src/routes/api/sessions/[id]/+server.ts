@@ -1,4 +1,3 @@
-import { clockSchema } from '$lib/engine';
 import { db } from '$lib/server/db';
 import { changeSessionBody } from '$lib/server/api-schemas';
 import { readJson, refusalResponse, signedIn } from '$lib/server/http';
