@@ -17,6 +17,10 @@ const { seedDemo } = await import('$lib/server/db/seed');
 const { appendChunk, createRehearsal } = await import('$lib/server/rehearsals');
 const { listMappings } = await import('$lib/server/mappings');
 const { listUsers } = await import('$lib/server/users');
+const { emptyExpiredTrash } = await import('$lib/server/trash-purge');
+
+/** A day past the trash's 30 days. */
+const later = () => new Date(Date.now() + 31 * 24 * 3600_000);
 const audio = await import('../../src/routes/api/sessions/[id]/audio/+server');
 const session = await import('../../src/routes/api/sessions/[id]/+server');
 
@@ -105,22 +109,25 @@ describe('PUT /api/sessions/[id]/audio', () => {
 		expect(incoming()).toEqual([]);
 	});
 
-	it('removes the audio file when the session is deleted after the upload', async () => {
+	it('keeps the audio of a session in the trash, and removes it when the trash is emptied', async () => {
 		const { id } = await createRehearsal(db, kai, { mappingId, tempo: 120 });
 		expect((await call(audio.PUT, id, slowPut(wav(2, 4444)))).status).toBe(201);
 		expect(stored().filter((name) => name.startsWith(id))).toHaveLength(1);
 		expect((await call(session.DELETE, id)).status).toBe(204);
+		expect(stored().filter((name) => name.startsWith(id))).toHaveLength(1);
+		await emptyExpiredTrash(db, later());
 		expect(stored().filter((name) => name.startsWith(id))).toEqual([]);
 	});
 });
 
-describe('DELETE /api/sessions/[id]', () => {
+describe('DELETE /api/sessions/[id], then emptying the trash', () => {
 	it('deletes the chunks explicitly, also on a connection without foreign keys', async () => {
 		const { id } = await createRehearsal(db, kai, { mappingId, tempo: 120 });
 		await appendChunk(db, kai, id, { seq: 0, events: [] });
 		await client.execute('PRAGMA foreign_keys = OFF');
 		try {
 			expect((await call(session.DELETE, id)).status).toBe(204);
+			await emptyExpiredTrash(db, later());
 		} finally {
 			await client.execute('PRAGMA foreign_keys = ON');
 		}

@@ -222,7 +222,14 @@ export async function getRehearsal(db: Database, userId: string, id: string) {
  */
 export async function deleteRehearsal(db: Database, userId: string, id: string) {
 	const row = await mine(db, userId, id);
-	if (row.eventCount === 0 && !row.audioFile) await db.delete(rehearsal).where(eq(rehearsal.id, id));
+	if (row.eventCount === 0 && !row.audioFile)
+		await serialWrite(() =>
+			db.transaction(async (tx) => {
+				// Explicitly: a libSQL server or a pooled connection may not enforce foreign keys.
+				await tx.delete(rehearsalChunk).where(eq(rehearsalChunk.rehearsalId, id));
+				await tx.delete(rehearsal).where(eq(rehearsal.id, id));
+			})
+		);
 	else await db.update(rehearsal).set({ deletedAt: new Date() }).where(eq(rehearsal.id, id));
 	return row;
 }

@@ -3,7 +3,7 @@
 // trash but its versions stay, so those sessions keep their findings.
 import { and, desc, eq, inArray, isNotNull, lt, notExists } from 'drizzle-orm';
 import type { Database } from './db';
-import { mapping, rehearsal } from './db/schema';
+import { mapping, rehearsal, rehearsalChunk } from './db/schema';
 import { Refusal } from './http';
 
 export const TRASH_DAYS = 30;
@@ -91,13 +91,13 @@ export async function purgeTrash(
 		.select({ id: rehearsal.id, audioFile: rehearsal.audioFile })
 		.from(rehearsal)
 		.where(lt(rehearsal.deletedAt, before));
-	if (expired.length)
-		await db.delete(rehearsal).where(
-			inArray(
-				rehearsal.id,
-				expired.map((r) => r.id)
-			)
-		);
+	const ids = expired.map((r) => r.id);
+	// Chunks first and explicitly: a libSQL server or a pooled connection may not enforce foreign keys.
+	if (ids.length)
+		await db.transaction(async (tx) => {
+			await tx.delete(rehearsalChunk).where(inArray(rehearsalChunk.rehearsalId, ids));
+			await tx.delete(rehearsal).where(inArray(rehearsal.id, ids));
+		});
 	const gone = await db
 		.delete(mapping)
 		.where(
