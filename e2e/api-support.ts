@@ -6,6 +6,7 @@ import { request, type APIRequestContext } from '@playwright/test';
 import { createHash } from 'node:crypto';
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { DEMO, DEMO_PASSWORD } from './support';
 
 export const port = Number(process.env.E2E_PORT ?? 4173);
@@ -76,7 +77,8 @@ export async function createdId(response: Awaited<ReturnType<APIRequestContext['
 }
 
 // A WebM file opens with the EBML magic 1A 45 DF A3 (Matroska/WebM container spec).
-export const SMALL_WEBM = Buffer.concat([Buffer.from([0x1a, 0x45, 0xdf, 0xa3]), Buffer.alloc(512, 7)]);
+/** A real 1.5 s WebM/Opus take recorded in Chromium: the server reads an upload's kind from its bytes. */
+export const SMALL_WEBM = readFileSync(fileURLToPath(new URL('../tests/fixtures/take.webm', import.meta.url)));
 
 /** A checksum of every row of every table of the server's database. */
 export async function databaseChecksum(): Promise<string> {

@@ -1,7 +1,7 @@
 import { building } from '$app/environment';
 import { auth } from '$lib/server/auth';
 import { authGate } from '$lib/server/auth-gate';
-import { warmAnalysisWorkers } from '$lib/server/analysis/pool';
+import { stopAnalysisWorkers, warmAnalysisWorkers } from '$lib/server/analysis/pool';
 import { assertProductionSettings, demoEnabled, isProduction } from '$lib/server/config';
 import { client, db, prepareDatabase } from '$lib/server/db';
 import { seedDemo } from '$lib/server/db/seed';
@@ -19,6 +19,8 @@ export const init: ServerInit = async () => {
 	if (demoEnabled()) await seedDemo(db, { randomPasswords: isProduction() });
 	await sweepIncoming();
 	void warmAnalysisWorkers().catch((e) => console.error('The analysis workers did not start:', e));
+	// adapter-node announces a graceful stop (SIGTERM/SIGINT) once the server is closed; the workers end with it.
+	process.once('sveltekit:shutdown', () => void stopAnalysisWorkers());
 	await emptyExpiredTrash(db);
 };
 

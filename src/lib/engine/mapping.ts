@@ -261,7 +261,17 @@ export function toProblems(error: z.ZodError): Problem[] {
 export function parseMapping(input: unknown): MappingResult {
 	if (input && typeof input === 'object' && (input as { version?: unknown }).version === 1) {
 		const old = mappingV1Schema.safeParse(input);
-		if (!old.success) return { ok: false, problems: toProblems(old.error) };
+		if (!old.success) {
+			// Name every problem at once: what the version 1 steps break, and what the rest of the document does.
+			const rest = mappingSchema.safeParse({
+				...input,
+				version: 2,
+				racks: [{ id: 'rack-1', label: 'Rack 1' }],
+				bindings: []
+			});
+			const more = rest.success ? [] : toProblems(rest.error).filter((p) => !p.path.startsWith('racks'));
+			return { ok: false, problems: [...toProblems(old.error), ...more] };
+		}
 		return parseMapping(upgradeMapping(old.data as unknown as MappingV1));
 	}
 	const r = mappingSchema.safeParse(input);
