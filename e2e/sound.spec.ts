@@ -81,7 +81,10 @@ function rig(first: RackState = rack()): RigState {
 	};
 }
 
-const click = (at: number): RenderSpec['decks'] => ({ A: { samples: [[1], [1]], samplesAt: at } });
+// A click, then a floor far below every threshold here (−120 dBFS) to the end of the render: Chromium 150
+// renders a delay line silent once its input has ended, which would hide the echoes being measured.
+const clickTail = () => Array.from({ length: Math.round(RATE * 1.5) }, (_, i) => (i === 0 ? 1 : 1e-6));
+const click = (at: number): RenderSpec['decks'] => ({ A: { samples: [clickTail(), clickTail()], samplesAt: at } });
 const noise = (seconds: number) => Array.from(M.seededNoise(Math.round(seconds * RATE), 9));
 
 /** Indexes of the peaks above `threshold`, each the largest sample of its burst. */
