@@ -100,13 +100,18 @@ export async function databaseChecksum(): Promise<string> {
 	return hash.digest('hex');
 }
 
-/** A checksum of the upload folder: every file's name and content. */
+/** A checksum of the upload folder: every file's path and content, through its subfolders. */
 export function uploadsChecksum(): string {
 	const hash = createHash('sha256');
 	if (!existsSync(uploadsDir)) return hash.digest('hex');
-	for (const name of readdirSync(uploadsDir).sort()) {
-		hash.update(name);
-		hash.update(readFileSync(join(uploadsDir, name)));
-	}
+	const walk = (dir: string, prefix: string) => {
+		for (const entry of readdirSync(dir, { withFileTypes: true }).sort((a, b) => a.name.localeCompare(b.name))) {
+			const path = join(dir, entry.name);
+			hash.update(prefix + entry.name);
+			if (entry.isDirectory()) walk(path, `${prefix}${entry.name}/`);
+			else hash.update(readFileSync(path));
+		}
+	};
+	walk(uploadsDir, '');
 	return hash.digest('hex');
 }

@@ -53,7 +53,11 @@ const ROUTES: Row[] = [
 	{ name: 'controllers page', method: 'GET', path: () => '/controllers', expect: signedInPage() },
 	{ name: 'sounds page', method: 'GET', path: () => '/sounds', expect: signedInPage() },
 	{ name: 'account page', method: 'GET', path: () => '/account', expect: signedInPage() },
-	{ name: 'classes page', method: 'GET', path: () => '/classes', expect: teachersPage },
+	{ name: 'classes page', method: 'GET', path: () => '/classes', expect: signedInPage() },
+	{ name: 'drills page', method: 'GET', path: () => '/drills', expect: teachersPage },
+	{ name: 'new drill page', method: 'GET', path: () => '/drills/new', expect: teachersPage },
+	{ name: 'new mapping page', method: 'GET', path: () => '/mappings/new', expect: signedInPage() },
+	{ name: 'trash page', method: 'GET', path: () => '/trash', expect: signedInPage() },
 	{ name: 'admin page', method: 'GET', path: () => '/admin', expect: adminsPage },
 	{ name: 'mail outbox page', method: 'GET', path: () => '/admin/outbox', expect: adminsPage },
 	{
