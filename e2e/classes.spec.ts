@@ -114,7 +114,14 @@ test('teacher, student and gradebook: a drill from class creation to a graded, e
 	await shot(page, 'class-student');
 
 	// Practice with the fake controller: press pad 1 on each beat, 10 ms late, held 300 ms.
-	await page.getByRole('link', { name: 'Steady pad one' }).click();
+	// Home lists what is due; the assignment says what the drill asks for before practising.
+	await open(page, '/home');
+	await page
+		.getByTestId('home-due')
+		.getByRole('link', { name: /Steady pad one/ })
+		.click();
+	await expect(page.getByTestId('drill-brief')).toContainText('4 presses in 1 bar at 100 BPM');
+	await expect(page.getByTestId('drill-brief')).toContainText('within ±40 ms');
 	await page.getByTestId('practise-link').click();
 	const panel = page.getByTestId('drill-panel');
 	await expect(panel).toBeVisible({ timeout: 60_000 });
@@ -243,3 +250,20 @@ async function outsiders(page: Page) {
 	expect((await page.request.get(`${classUrl}/gradebook.csv`)).status()).toBe(404);
 	expect((await page.request.get(`/api/submissions/${submission}`)).status()).toBe(404);
 }
+
+test('the demo class: a member opens the practice room of its drill straight from its address', async ({ page }) => {
+	await signIn(page, 'student2'); // Lena is in the demo school's "Wednesday night crew"
+	await open(page, '/home');
+	await page
+		.getByTestId('home-due')
+		.getByRole('link', { name: /Echo and filter swap/ })
+		.click();
+	await expect(page.getByTestId('drill-brief')).toContainText('5 presses in 4 bars at 120 BPM');
+	const practise = await page.getByTestId('practise-link').getAttribute('href');
+	// Loaded as a new page (rendered on the server first), not by an in-app link.
+	const response = await page.goto(practise!);
+	expect(response?.status()).toBe(200);
+	await page.locator('html[data-ready]').waitFor();
+	await expect(page.getByTestId('drill-panel')).toBeVisible();
+	await expect(page.getByTestId('drill-panel')).toContainText('Echo and filter swap');
+});

@@ -136,7 +136,8 @@ export class DrillPractice {
 		return true;
 	}
 
+	/** Also runs when the room is rendered on the server, where there are no animation frames. */
 	dispose(): void {
-		cancelAnimationFrame(this.#frame);
+		if (typeof cancelAnimationFrame !== 'undefined') cancelAnimationFrame(this.#frame);
 	}
 }

@@ -123,6 +123,21 @@ export async function drillFor(db: Database, userId: string, id: string) {
 	};
 }
 
+/** What a drill asks for, in one line a student reads before practising. */
+export function drillBrief(doc: unknown): string | null {
+	const r = parseDrill(doc);
+	if (!r.ok) return null;
+	const d = r.drill;
+	const bars = (n: number) => `${n} bar${n === 1 ? '' : 's'}`;
+	const presses = `${d.targets.length} press${d.targets.length === 1 ? '' : 'es'}`;
+	const countIn = d.countInBars ? ` after ${bars(d.countInBars)} of count-in` : '';
+	const findings = d.pass.findings === 0 ? 'no findings' : `at most ${d.pass.findings} findings`;
+	return (
+		`${presses} in ${bars(d.lengthBars)} at ${d.tempo} BPM${countIn}; a press counts within ±${d.windowMs} ms. ` +
+		`To pass: ${Math.round(d.pass.hitRate * 100)} % of the presses hit, ${findings}.`
+	);
+}
+
 function checkStored(doc: unknown): DrillDocument {
 	const r = parseDrill(doc);
 	if (!r.ok) throw new Refusal(500, 'This drill is stored in a shape Padproof cannot read.');

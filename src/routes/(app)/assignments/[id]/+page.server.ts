@@ -1,7 +1,7 @@
 import { assignmentFor, assignmentSubmissions, submit } from '$lib/server/assignments';
 import { publicOrigin } from '$lib/server/config';
 import { db } from '$lib/server/db';
-import { takesOf } from '$lib/server/drills';
+import { drillBrief, takesOf } from '$lib/server/drills';
 import { pageRefusal, Refusal } from '$lib/server/http';
 import { requireArea } from '$lib/server/roles';
 import { describeContent, sniffAudio } from '$lib/server/sniff';
@@ -27,6 +27,7 @@ export const load: PageServerLoad = async ({ locals, params }) => {
 			drillId: a.drillId,
 			mappingId: a.drill.mappingId,
 			drill: a.drill.name,
+			brief: drillBrief(a.drill.document),
 			dueAt: a.dueAt,
 			className: a.className,
 			classId: a.classId,
