@@ -942,7 +942,9 @@ for (const row of ROUTES) {
 			const body = row.body?.(fixtures, fresh);
 			const actor = row.actor ? await row.actor(person) : as[person];
 			const headers: Record<string, string> = {
-				accept: body?.form || body?.multipart || row.method === 'GET' ? 'text/html' : 'application/json'
+				accept: body?.form || body?.multipart || row.method === 'GET' ? 'text/html' : 'application/json',
+				// A fresh connection per cell: a kept-alive one may be closed by the server while a slow fixture is made.
+				connection: 'close'
 			};
 			if (body?.type) headers['content-type'] = body.type;
 			const response = await actor.fetch(row.path(fixtures, fresh), {
