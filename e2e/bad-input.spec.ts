@@ -106,6 +106,8 @@ const notDrill = fc.oneof(
 		.filter((s) => !/^pad-\d+$/.test(s.trim()))
 		.map((input) => ({ ...DRILL, targets: [{ input, beat: 0, beats: 1 }] }))
 );
+/** A name over 120 characters even after trimming (names are trimmed before their length is checked). */
+const tooLongName = fc.string({ minLength: 121 }).filter((s) => s.trim().length > 120);
 /** An id that names nothing (the fixtures' ids are UUIDs). */
 const unknownId = fc.string({ minLength: 1, maxLength: 30 });
 const rawBody = (json: fc.Arbitrary<unknown>) =>
@@ -134,7 +136,7 @@ const ENDPOINTS: Endpoint[] = [
 			fc.oneof(
 				fc.record({ document: notDocument, name: fc.option(fc.string({ maxLength: 20 })) }),
 				fc.record({ document: notDocument, visibility: fc.string() }),
-				fc.record({ name: fc.string({ minLength: 121 }), document: notDocument })
+				fc.record({ name: tooLongName, document: notDocument })
 			)
 		)
 	},
@@ -187,7 +189,7 @@ const ENDPOINTS: Endpoint[] = [
 		path: () => `/api/sessions/${ids.session}`,
 		body: rawBody(
 			fc.oneof(
-				fc.record({ name: fc.oneof(notString, fc.constant(''), fc.constant('   '), fc.string({ minLength: 121 })) }),
+				fc.record({ name: fc.oneof(notString, fc.constant(''), fc.constant('   '), tooLongName) }),
 				fc.record({ finish: notBoolean })
 			)
 		)
@@ -234,18 +236,16 @@ const ENDPOINTS: Endpoint[] = [
 		name: 'rename a mapping',
 		method: 'PATCH',
 		path: () => `/api/mappings/${ids.mapping}`,
-		body: rawBody(
-			fc.record({ name: fc.oneof(notString, fc.constant(''), fc.constant('   '), fc.string({ minLength: 121 })) })
-		)
+		body: rawBody(fc.record({ name: fc.oneof(notString, fc.constant(''), fc.constant('   '), tooLongName) }))
 	},
 	{
 		name: 'fork a mapping',
 		method: 'POST',
 		path: () => `/api/mappings/${ids.publicMapping}/fork`,
 		// An empty body is a fork with the source's name, so every body here has something in it.
-		body: rawBody(
-			fc.record({ name: fc.oneof(notString, fc.constant(''), fc.constant('   '), fc.string({ minLength: 121 })) })
-		).filter((b) => b.trim() !== '')
+		body: rawBody(fc.record({ name: fc.oneof(notString, fc.constant(''), fc.constant('   '), tooLongName) })).filter(
+			(b) => b.trim() !== ''
+		)
 	},
 	{
 		name: 'save a learned controller layout',
@@ -355,7 +355,11 @@ interface FormImport {
 
 /** Bytes that are no audio file: text, JSON, a PNG signature, nothing. */
 const notAudio = fc.oneof(
-	fc.string({ maxLength: 300 }).map((s) => Buffer.from(s)),
+	// Text that does not open with an audio signature (ID3, OggS, RIFF, fLaC, ftyp at 4, EBML).
+	fc
+		.string({ maxLength: 300 })
+		.filter((s) => !/^(ID3|OggS|RIFF|fLaC|.{4}ftyp)/s.test(s) && !s.startsWith('\u001a'))
+		.map((s) => Buffer.from(s)),
 	fc.jsonValue().map((v) => Buffer.from(JSON.stringify(v) ?? 'null')),
 	fc.constant(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 13])) // PNG signature (ISO/IEC 15948)
 );
