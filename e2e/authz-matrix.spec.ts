@@ -541,6 +541,13 @@ const ROUTES: Row[] = [
 		expect: classTeacherPage(200)
 	},
 	{
+		name: 'share the student’s private mapping with a class (form)',
+		method: 'POST',
+		path: (f) => `/classes/${f.classId}?/share`,
+		body: (f) => ({ form: { mappingId: f.privateMapping } }),
+		expect: classTeacherPage(404) // a teacher shares only their own or public mappings
+	},
+	{
 		name: 'stop sharing a mapping with a class (form)',
 		method: 'POST',
 		path: (f) => `/classes/${f.classId}?/unshare`,
@@ -617,6 +624,19 @@ const ROUTES: Row[] = [
 		path: () => '/api/drills',
 		body: (f) => ({ json: { mappingId: f.publicMapping, document: { ...DRILL, name: 'Matrix API drill' } } }),
 		expect: anyTeacher(201, 401)
+	},
+	{
+		name: 'create a drill on the student’s private mapping',
+		method: 'POST',
+		path: () => '/api/drills',
+		body: (f) => ({ json: { mappingId: f.privateMapping, document: { ...DRILL, name: 'Matrix stolen drill' } } }),
+		expect: anyTeacher(404, 401)
+	},
+	{
+		name: 'practise a drill in the rehearsal room',
+		method: 'GET',
+		path: (f) => `/rehearse/${f.publicMapping}?drill=${f.drill}&assignment=${f.assignment}`,
+		expect: classOnly(200, 303) // the drill's author and the class it is given to
 	},
 	{ name: 'read a drill', method: 'GET', path: (f) => `/api/drills/${f.drill}`, expect: classOnly(200) },
 	{
