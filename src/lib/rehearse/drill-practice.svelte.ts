@@ -136,7 +136,9 @@ export class DrillPractice {
 		return true;
 	}
 
+	/** Also called while the page is rendered on the server (onDestroy), where no frame was ever asked for. */
 	dispose(): void {
-		cancelAnimationFrame(this.#frame);
+		if (this.#frame) cancelAnimationFrame(this.#frame);
+		this.#frame = 0;
 	}
 }
