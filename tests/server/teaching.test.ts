@@ -24,7 +24,7 @@ import { schoolClass } from '$lib/server/db/schema';
 import { createDrill, drillFor, recordTake } from '$lib/server/drills';
 import { Refusal } from '$lib/server/http';
 import { readOutbox } from '$lib/server/mail';
-import { createMapping, getMapping, listMappings } from '$lib/server/mappings';
+import { createMapping, getMapping, listMappings, setVisibility } from '$lib/server/mappings';
 import { getRehearsal, importSession } from '$lib/server/rehearsals';
 import { listUsers } from '$lib/server/users';
 import { eq } from 'drizzle-orm';
@@ -155,6 +155,22 @@ describe('classes', () => {
 		await shareMapping(t.db, tomas.id, classId, secret);
 		expect((await getMapping(t.db, kai.id, secret)).name).toBe('Class-only set');
 		await refused(getMapping(t.db, who('lena@mixlab.example').id, secret), 404);
+	});
+
+	it('a mapping of someone else, shared while public, closes to the class once its owner makes it private', async () => {
+		const { tomas, kai, classId } = await scene();
+		const [mail] = await readOutbox();
+		await acceptInvitation(t.db, kai, mail.body.match(/\/join\/([\w-]+)/)![1]);
+		const ines = who('ines@mixlab.example');
+		const doc = (await getMapping(t.db, tomas.id, (await listMappings(t.db, tomas.id))[0].id)).document;
+		const theirs = await createMapping(t.db, ines.id, { document: doc, name: 'Lent set', visibility: 'public' });
+		const { shareMapping } = await import('$lib/server/classes');
+		await shareMapping(t.db, tomas.id, classId, theirs);
+		expect((await getMapping(t.db, kai.id, theirs)).name).toBe('Lent set');
+		await setVisibility(t.db, ines.id, theirs, 'private');
+		await refused(getMapping(t.db, kai.id, theirs), 404);
+		await refused(getMapping(t.db, tomas.id, theirs), 404);
+		expect((await getMapping(t.db, ines.id, theirs)).name).toBe('Lent set');
 	});
 });
 

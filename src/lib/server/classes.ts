@@ -280,20 +280,20 @@ export async function sharedMappings(db: Database, classId: string) {
 		.orderBy(mapping.name);
 }
 
-/** Whether a mapping is shared with a class the user is in (or teaches). */
+/**
+ * Whether a mapping is shared with a class the user is in by the class teacher who owns it. A mapping of
+ * someone else, shared while it was public, is no longer reachable this way once its owner makes
+ * it private: the owner's choice wins over an earlier share.
+ */
 export async function sharedWith(db: Database, userId: string, mappingId: string): Promise<boolean> {
-	const [viaMember] = await db
+	const ownerTeaches = and(eq(classMapping.mappingId, mappingId), eq(mapping.ownerId, schoolClass.teacherId));
+	const [shared] = await db
 		.select({ id: classMapping.mappingId })
 		.from(classMapping)
-		.innerJoin(classMember, eq(classMember.classId, classMapping.classId))
-		.where(and(eq(classMapping.mappingId, mappingId), eq(classMember.userId, userId)))
-		.limit(1);
-	if (viaMember) return true;
-	const [viaTeacher] = await db
-		.select({ id: classMapping.mappingId })
-		.from(classMapping)
+		.innerJoin(mapping, eq(mapping.id, classMapping.mappingId))
 		.innerJoin(schoolClass, eq(schoolClass.id, classMapping.classId))
-		.where(and(eq(classMapping.mappingId, mappingId), eq(schoolClass.teacherId, userId)))
+		.innerJoin(classMember, eq(classMember.classId, classMapping.classId))
+		.where(and(ownerTeaches, eq(classMember.userId, userId)))
 		.limit(1);
-	return Boolean(viaTeacher);
+	return Boolean(shared);
 }

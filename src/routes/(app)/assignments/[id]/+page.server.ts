@@ -87,6 +87,11 @@ export const actions: Actions = {
 		const file = form.get('audio');
 		let audio: { file: string; type: string } | null = null;
 		const store = uploadStore();
+		// A browser sends an empty part without a name when no file was chosen; a chosen empty file is refused.
+		if (file instanceof File && file.size === 0 && file.name)
+			return fail(400, {
+				message: `The audio file “${file.name.slice(0, 80)}” is empty; choose the recording again, or hand in without audio.`
+			});
 		if (file instanceof File && file.size > 0) {
 			if (file.size > MAX_FORM_AUDIO) return fail(413, { message: 'The audio file is larger than 50 MB.' });
 			const bytes = new Uint8Array(await file.arrayBuffer());
