@@ -8,6 +8,7 @@ import {
 	TOKEN_PREFIX,
 	TokenRefusal,
 	tokenRefusalResponse,
+	verifyStoredToken,
 	type TokenDeps,
 	type VerifyResult
 } from '$lib/server/api-tokens';
@@ -56,7 +57,7 @@ async function tokenFor(userId: string, name = 'Backup script') {
 function deps(overrides: Partial<TokenDeps<Awaited<ReturnType<typeof findTokenOwner>> & object>> = {}) {
 	const throttle = new Throttle(demo.db, { enabled: true, now: () => clock });
 	return {
-		verify: (key: string) => auth.api.verifyApiKey({ body: { key } }) as Promise<VerifyResult>,
+		verify: (key: string) => verifyStoredToken(demo.db, key),
 		findUser: (id: string) => findTokenOwner(demo.db, id),
 		hit: throttle.hit.bind(throttle),
 		rule: { limit: 300, windowMs: 60_000 },
@@ -123,11 +124,37 @@ describe('resolving a token', { timeout: 30_000 }, () => {
 		expect(owner.role).toBe('teacher');
 	});
 
-	it('records when the token was last used', async () => {
+	it('records when the token was last used, at most once a minute', async () => {
 		const { key } = await tokenFor(demo.kai);
-		await resolveToken(key, deps());
-		const [listed] = await listTokens(demo.db, demo.kai);
-		expect(listed.lastUsedAt).toBeInstanceOf(Date);
+		const t0 = Date.now();
+		await verifyStoredToken(demo.db, key, t0);
+		await verifyStoredToken(demo.db, key, t0 + 59_000);
+		expect((await listTokens(demo.db, demo.kai))[0].lastUsedAt?.getTime()).toBe(t0);
+		await verifyStoredToken(demo.db, key, t0 + 60_000);
+		expect((await listTokens(demo.db, demo.kai))[0].lastUsedAt?.getTime()).toBe(t0 + 60_000);
+	});
+
+	it("agrees with the plugin's own verifyApiKey on valid, revoked and expired tokens", async () => {
+		const plugin = (key: string) => auth.api.verifyApiKey({ body: { key } }) as Promise<VerifyResult>;
+		const live = await tokenFor(demo.kai, 'Live');
+		const expired = await tokenFor(demo.kai, 'Expired');
+		const revoked = await tokenFor(demo.kai, 'Revoked');
+		await demo.db
+			.update(apikey)
+			.set({ expiresAt: new Date(Date.now() - 1000) })
+			.where(eq(apikey.id, expired.id));
+		await demo.db.delete(apikey).where(eq(apikey.id, revoked.id));
+		const ours = await verifyStoredToken(demo.db, live.key);
+		const theirs = await plugin(live.key);
+		expect(ours).toMatchObject({ valid: true, key: { id: live.id, referenceId: demo.kai } });
+		expect(theirs).toMatchObject({ valid: true, key: { id: live.id, referenceId: demo.kai } });
+		// Ours first: the plugin deletes an expired key when it sees one.
+		expect((await verifyStoredToken(demo.db, expired.key)).error?.code).toBe('KEY_EXPIRED');
+		expect((await plugin(expired.key)).error?.code).toBe('KEY_EXPIRED');
+		for (const check of [verifyStoredToken.bind(null, demo.db), plugin]) {
+			expect((await check(revoked.key)).valid).toBe(false);
+			expect((await check(live.key.slice(0, -1) + (live.key.endsWith('a') ? 'b' : 'a'))).valid).toBe(false);
+		}
 	});
 
 	it('refuses a revoked token with 401', async () => {

@@ -8,9 +8,9 @@ import {
 	resolveToken,
 	tokenRefusalResponse,
 	TokenRefusal,
-	type VerifyResult
+	verifyStoredToken
 } from './api-tokens';
-import { auth, type AuthSession } from './auth';
+import type { AuthSession } from './auth';
 import { rateLimitEnabled, tokenRequestsPerMinute } from './config';
 import { db } from './db';
 import { throttle } from './throttle-instance';
@@ -30,7 +30,7 @@ export async function tokenUser(event: RequestEvent): Promise<AuthSession['user'
 		token instanceof TokenRefusal
 			? token
 			: await resolveToken(token, {
-					verify: (key) => auth.api.verifyApiKey({ body: { key } }) as Promise<VerifyResult>,
+					verify: (key) => verifyStoredToken(db, key),
 					findUser: (id) => findTokenOwner(db, id),
 					hit: (bucket, rule) => throttle.hit(bucket, rule),
 					rule: rateLimitEnabled() ? { limit: tokenRequestsPerMinute(), windowMs: 60_000 } : null

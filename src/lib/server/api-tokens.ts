@@ -3,7 +3,7 @@
 // resolution of `Authorization: Bearer <token>` on /api requests into the owner, with the owner's
 // own rights and a per-token rate limit. It does not import the auth instance, so tests can give
 // it one of their own (api-token-gate.ts wires it to the app's).
-import { apiKey } from '@better-auth/api-key';
+import { apiKey, defaultKeyHasher } from '@better-auth/api-key';
 import { and, count, desc, eq } from 'drizzle-orm';
 import { z } from 'zod';
 import type { Database } from './db';
@@ -136,15 +136,48 @@ export function bearerToken(headers: Headers): string | TokenRefusal | null {
 	return token;
 }
 
-/** What better-auth's `verifyApiKey` answers (the part used here). */
+/** What better-auth's `verifyApiKey` answers (the part used here); `verifyStoredToken` answers the same. */
 export interface VerifyResult {
 	valid: boolean;
 	error: { code?: string; message?: string } | null;
 	key: { id: string; referenceId: string; name?: string | null } | null;
 }
 
+/** "Last used" is written at most this often, not on every request (one write less per request). */
+export const LAST_USED_STEP_MS = 60_000;
+
+/**
+ * Checks a token against the plugin's table the way its `verifyApiKey` does for our settings
+ * (same hash, `enabled`, `expiresAt`; no usage quota, permissions or plugin limiter are used), but
+ * with one read and at most one write a minute: `verifyApiKey` writes the row twice on every
+ * request. Expired rows are left to the plugin, which deletes them when tokens are made or revoked.
+ */
+export async function verifyStoredToken(db: Database, key: string, now = Date.now()): Promise<VerifyResult> {
+	const [row] = await db
+		.select({
+			id: apikey.id,
+			referenceId: apikey.referenceId,
+			name: apikey.name,
+			enabled: apikey.enabled,
+			expiresAt: apikey.expiresAt,
+			lastRequest: apikey.lastRequest
+		})
+		.from(apikey)
+		.where(eq(apikey.key, await defaultKeyHasher(key)));
+	if (!row || row.enabled === false) return { valid: false, error: { code: 'INVALID_API_KEY' }, key: null };
+	if (row.expiresAt && row.expiresAt.getTime() <= now)
+		return { valid: false, error: { code: 'KEY_EXPIRED' }, key: null };
+	if (!row.lastRequest || now - row.lastRequest.getTime() >= LAST_USED_STEP_MS) {
+		await db
+			.update(apikey)
+			.set({ lastRequest: new Date(now) })
+			.where(eq(apikey.id, row.id));
+	}
+	return { valid: true, error: null, key: { id: row.id, referenceId: row.referenceId, name: row.name } };
+}
+
 export interface TokenDeps<U> {
-	/** better-auth's `auth.api.verifyApiKey({ body: { key } })`. */
+	/** `verifyStoredToken`, or better-auth's `auth.api.verifyApiKey({ body: { key } })`. */
 	verify: (key: string) => Promise<VerifyResult>;
 	findUser: (id: string) => Promise<U | null>;
 	/** The app's throttle (throttle.ts `hit`): counts one request in a bucket kept in the database. */
