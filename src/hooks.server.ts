@@ -1,4 +1,5 @@
 import { building } from '$app/environment';
+import { tokenUser } from '$lib/server/api-token-gate';
 import { auth } from '$lib/server/auth';
 import { authGate } from '$lib/server/auth-gate';
 import { stopAnalysisWorkers, warmAnalysisWorkers } from '$lib/server/analysis/pool';
@@ -27,8 +28,14 @@ export const init: ServerInit = async () => {
 export const handle: Handle = async ({ event, resolve }) => {
 	const refused = await limitBody(event);
 	if (refused) return secureHeaders(refused);
-	const session = await auth.api.getSession({ headers: event.request.headers });
-	event.locals.user = session?.user ?? null;
+	// /api requests with `Authorization: Bearer <token>` act as the token's owner (api-token-gate.ts).
+	const byToken = await tokenUser(event);
+	if (byToken instanceof Response) {
+		discardUnread(event.request);
+		return secureHeaders(byToken);
+	}
+	const session = byToken ? null : await auth.api.getSession({ headers: event.request.headers });
+	event.locals.user = byToken ?? session?.user ?? null;
 	event.locals.session = session?.session ?? null;
 	const response =
 		event.url.pathname === '/api/auth' || event.url.pathname.startsWith('/api/auth/')

@@ -1,7 +1,8 @@
 // Everything that reaches better-auth over HTTP (`/api/auth/*`) passes here first: bodies are
 // bounded and validated with the same rules as our forms, password and mail endpoints are
-// throttled, account management stays on the admin page, and refusals use the app's one error
-// shape `{ error, problems }` (better-auth itself answers a malformed body with an empty 500).
+// throttled, account management stays on the admin page (and API tokens on /account), and
+// refusals use the app's one error shape `{ error, problems }` (better-auth itself answers a
+// malformed body with an empty 500).
 import type { RequestEvent } from '@sveltejs/kit';
 import { json } from '@sveltejs/kit';
 import { z } from 'zod';
@@ -95,6 +96,9 @@ export async function authGate(event: RequestEvent): Promise<Response> {
 	try {
 		if (path.startsWith('/admin/')) {
 			return refuse(403, 'Accounts are managed on the admin page of Padproof, not through this API.');
+		}
+		if (path.startsWith('/api-key/')) {
+			return refuse(403, 'API tokens are created and revoked on your account page (/account), not through this API.');
 		}
 		if (event.request.method !== 'POST') return await auth.handler(event.request);
 

@@ -8,6 +8,7 @@ import { createAccessControl } from 'better-auth/plugins/access';
 import { adminAc, defaultStatements, userAc } from 'better-auth/plugins/admin/access';
 import { sveltekitCookies } from 'better-auth/svelte-kit';
 import { sendResetLink } from './account-mail';
+import { apiTokenPlugin } from './api-tokens';
 import { addressHeader, publicOrigin } from './config';
 import { db } from './db';
 import * as schema from './db/schema';
@@ -82,6 +83,8 @@ export const auth = betterAuth({
 			defaultBanReason: 'Disabled by an admin',
 			bannedUserMessage: 'This account is disabled. Ask your school’s admin to enable it again.'
 		}),
+		// Personal API tokens for /api/* (api-tokens.ts); made and revoked on /account only.
+		apiTokenPlugin(),
 		sveltekitCookies(getRequestEvent)
 	]
 });

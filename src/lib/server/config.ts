@@ -118,3 +118,10 @@ export const limits = {
 	/** Mappings one person owns. */
 	mappings: () => limit('PADPROOF_MAX_MAPPINGS', 500)
 };
+
+/**
+ * Requests one personal API token may make in a minute (`PADPROOF_TOKEN_RATE_LIMIT`, default 300:
+ * five a second, well above a script that uploads a chunk every 2 s). Off with the other limits
+ * when `PADPROOF_RATE_LIMIT=off`.
+ */
+export const tokenRequestsPerMinute = () => limit('PADPROOF_TOKEN_RATE_LIMIT', 300);

@@ -4,6 +4,7 @@
 import { z } from 'zod';
 import * as s from './api-schemas';
 import { CHUNK_MAX_BYTES, CHUNK_MAX_EVENTS } from '$lib/recorder/limits';
+import { tokenRequestsPerMinute } from './config';
 
 type Schema = z.ZodType;
 
@@ -22,13 +23,17 @@ export interface Operation {
 
 export const REFUSALS: Record<number, string> = {
 	400: 'The body is not valid JSON or breaks the schema; `problems` lists each problem.',
-	401: 'Not signed in.',
+	401: 'Not signed in, or the API token is not valid (revoked, expired or mistyped).',
 	403: 'Signed in, but not allowed (for example: changing someone else’s mapping).',
 	404: 'No such thing, or it is private to someone else.',
 	409: 'In conflict with what the server holds (finished session, chunk number used, library full).',
 	413: 'Too large for the server’s limits.',
-	415: 'A file of a type the server does not take.'
+	415: 'A file of a type the server does not take.',
+	429: 'Too many requests with this API token in a minute; wait the seconds the Retry-After header gives.'
 };
+
+/** Every signed-in operation can be refused with 429 when it is called with an API token. */
+const refusalsOf = (op: Operation) => (op.public ? op.refusals : [...new Set([...op.refusals, 429])]);
 
 export const OPERATIONS: Operation[] = [
 	{
@@ -215,7 +220,7 @@ export function openApiDocument(origin: string) {
 					: {})
 			}
 		};
-		for (const status of op.refusals)
+		for (const status of refusalsOf(op))
 			responses[status] = { description: REFUSALS[status], content: { 'application/json': { schema: ERROR } } };
 		(paths[op.path] ??= {})[op.method] = {
 			tags: [op.tag],
@@ -240,14 +245,23 @@ export function openApiDocument(origin: string) {
 			title: 'Padproof JSON API',
 			version: '1',
 			description:
-				'Mappings and recorded sessions of the signed-in person. Sign in first (the session cookie is sent with each request); every refusal has the shape `{ error, problems }`.'
+				'Mappings and recorded sessions of the signed-in person. Send a personal API token (created on /account) as ' +
+				'`Authorization: Bearer <token>`, or the session cookie of a signed-in browser. A token acts with exactly ' +
+				`its owner's rights and may make ${tokenRequestsPerMinute()} requests a minute (then 429 with Retry-After). ` +
+				'Every refusal has the shape `{ error, problems }`.'
 		},
 		servers: [{ url: origin }],
-		security: [{ session: [] }],
+		security: [{ token: [] }, { session: [] }],
 		tags: [{ name: 'Mappings' }, { name: 'Sessions' }, { name: 'About the API' }],
 		paths,
 		components: {
 			securitySchemes: {
+				token: {
+					type: 'http',
+					scheme: 'bearer',
+					description:
+						'A personal API token from /account (starts with `pp_`). Only /api/* takes it; pages, forms and /api/auth/* do not.'
+				},
 				session: { type: 'apiKey', in: 'cookie', name: 'better-auth.session_token', description: 'Set by signing in.' }
 			},
 			schemas: {
@@ -271,7 +285,7 @@ export function apiReference() {
 		query: op.query ?? [],
 		body: op.body ? { type: op.body.type ?? 'application/json', schema: pretty(op.body.schema) } : null,
 		ok: { status: op.ok.status, description: op.ok.description, schema: pretty(op.ok.schema) },
-		refusals: op.refusals.map((status) => ({ status, description: REFUSALS[status] })),
+		refusals: refusalsOf(op).map((status) => ({ status, description: REFUSALS[status] })),
 		public: op.public ?? false
 	}));
 }

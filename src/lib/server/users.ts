@@ -1,6 +1,6 @@
 import { and, asc, count, eq, inArray, ne, or, sql, type Column } from 'drizzle-orm';
 import { serialWrite, type Database } from './db';
-import { mapping, mappingVersion, rehearsal, rehearsalChunk, user } from './db/schema';
+import { apikey, mapping, mappingVersion, rehearsal, rehearsalChunk, user } from './db/schema';
 import type { Role } from './roles';
 import { uploadStore } from './storage';
 
@@ -140,6 +140,7 @@ export async function deleteAccountData(db: Database, userId: string, heirId: st
 		await tx.update(rehearsal).set({ mappingId: null }).where(inArray(rehearsal.mappingId, ownMappings));
 		await tx.delete(mappingVersion).where(inArray(mappingVersion.mappingId, ownMappings));
 		await tx.delete(mapping).where(eq(mapping.ownerId, userId));
+		await tx.delete(apikey).where(eq(apikey.referenceId, userId));
 		return keep.length;
 	});
 	for (const { file } of files) if (file) await uploadStore().remove(file);

@@ -1,13 +1,23 @@
 import { passwordChangedMail, sendCourtesyMail } from '$lib/server/account-mail';
+import {
+	countTokens,
+	expiresInSeconds,
+	listTokens,
+	newTokenForm,
+	revokeTokenForm,
+	TOKEN_NAME_MAX,
+	TOKENS_PER_PERSON
+} from '$lib/server/api-tokens';
 import { attemptSucceeded, authCode, refuseAttempt } from '$lib/server/attempts';
 import { auth } from '$lib/server/auth';
+import { db } from '$lib/server/db';
 import { passwordProblem } from '$lib/server/passwords';
 import { requireArea } from '$lib/server/roles';
 import { currentPassword, formObject, password, validate, type FieldErrors } from '$lib/server/validate';
 import { fail, redirect } from '@sveltejs/kit';
 import { APIError } from 'better-auth/api';
 import { z } from 'zod';
-import type { Actions } from './$types';
+import type { Actions, PageServerLoad } from './$types';
 
 const ChangePassword = z
 	.object({ currentPassword, newPassword: password, confirm: z.string() })
@@ -18,7 +28,74 @@ const DeleteAccount = z.object({
 	confirm: z.literal('on', { error: 'Tick the box to confirm that everything is deleted.' })
 });
 
+export const load: PageServerLoad = async ({ locals }) => {
+	const user = requireArea(locals, 'app');
+	return { tokens: await listTokens(db, user.id), tokenLimits: { nameMax: TOKEN_NAME_MAX, count: TOKENS_PER_PERSON } };
+};
+
+/** A token refusal better-auth words for developers, in words for a person. */
+function tokenProblem(e: APIError): string {
+	const code = authCode(e);
+	if (code === 'INVALID_NAME_LENGTH') return `Keep the name to ${TOKEN_NAME_MAX} characters or fewer.`;
+	if (code === 'NAME_REQUIRED') return 'Give the token a name.';
+	if (code === 'KEY_NOT_FOUND') return 'That token is already revoked.';
+	return 'The token could not be saved. Please try again.';
+}
+
 export const actions: Actions = {
+	createToken: async ({ request, locals }) => {
+		const user = requireArea(locals, 'app');
+		const form = formObject(await request.formData());
+		const parsed = validate(newTokenForm, form);
+		if (!parsed.ok)
+			return fail(400, { action: 'token', errors: parsed.errors, message: parsed.message, name: form.name ?? '' });
+		if ((await countTokens(db, user.id)) >= TOKENS_PER_PERSON) {
+			const message = `You have ${TOKENS_PER_PERSON} tokens, the most one person may hold. Revoke one you no longer use first.`;
+			return fail(409, { action: 'token', errors: {} as FieldErrors, message, name: parsed.data.name });
+		}
+		try {
+			const created = await auth.api.createApiKey({
+				body: { name: parsed.data.name, expiresIn: expiresInSeconds(parsed.data.expires) ?? undefined },
+				headers: request.headers
+			});
+			return {
+				action: 'token',
+				created: {
+					id: created.id,
+					name: created.name ?? parsed.data.name,
+					key: created.key,
+					expiresAt: created.expiresAt
+				}
+			};
+		} catch (e) {
+			if (e instanceof APIError) {
+				const message = tokenProblem(e);
+				return fail(400, {
+					action: 'token',
+					errors: { name: message } as FieldErrors,
+					message,
+					name: parsed.data.name
+				});
+			}
+			throw e;
+		}
+	},
+
+	revokeToken: async ({ request, locals }) => {
+		requireArea(locals, 'app');
+		const parsed = validate(revokeTokenForm, formObject(await request.formData()));
+		if (!parsed.ok) return fail(400, { action: 'revoke', errors: parsed.errors, message: parsed.message });
+		try {
+			await auth.api.deleteApiKey({ body: { keyId: parsed.data.id }, headers: request.headers });
+		} catch (e) {
+			// Someone else's token answers like a missing one: NOT_FOUND.
+			if (e instanceof APIError)
+				return fail(404, { action: 'revoke', errors: {} as FieldErrors, message: tokenProblem(e) });
+			throw e;
+		}
+		return { action: 'revoke', revoked: true };
+	},
+
 	password: async (event) => {
 		const { request, locals } = event;
 		const user = requireArea(locals, 'app');
