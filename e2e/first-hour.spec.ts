@@ -1,8 +1,10 @@
 import { expect, test, type Page } from '@playwright/test';
+import { resetLink, waitForMail } from './outbox';
 import { open, touchScreen } from './support';
 
 // A newcomer's first hour, as one journey: sign up, follow the home guide, read the glossary,
-// rehearse the demo whose stutter row drops out, record a take, replay it and find the dropout.
+// rehearse the demo whose stutter row drops out, record a take, replay it and find the dropout,
+// then forget the password and set a new one through the mailed link.
 // Demo "Broken stutter row" (src/lib/engine/demo.ts): the top row pad-13..pad-16 plays keys 1–4
 // and is plain momentary on/off, so lifting one finger of two cuts the effect on deck A.
 const LAPTOP = { width: 1366, height: 768 };
@@ -166,8 +168,34 @@ test('a newcomer signs up, follows the guide, records a take and finds its dropo
 	await open(mobile, '/help');
 	await noSidewaysScroll(mobile);
 
-	// --- Forgot-password leg goes here once the accounts work is merged: request a reset link at
-	// --- /forgot-password, open it from the local outbox, set a new password, sign in with it.
+	// A week later the password is forgotten: ask for a reset link from the sign-in page, open it
+	// from the local outbox, choose a new password and sign in with it.
+	const later = await browser.newContext({ viewport: LAPTOP });
+	const guest = await later.newPage();
+	await open(guest, '/signin');
+	await guest.getByRole('link', { name: 'Forgot password?' }).click();
+	await expect(guest).toHaveURL(/\/forgot-password$/);
+	await guest.getByLabel('Email').fill(email);
+	await guest.getByRole('button', { name: 'Send reset link' }).click();
+	await expect(guest.getByTestId('reset-sent')).toContainText(email);
+	const mail = await waitForMail(email, /new Padproof password/);
+	expect(mail.text).toContain('Hello Ada Quill,');
+	await guest.goto(resetLink(mail));
+	await expect(guest.getByRole('heading', { name: 'Choose a new password' })).toBeVisible();
+	await guest.getByLabel('New password', { exact: true }).fill('second-hour-88');
+	await guest.getByLabel('Repeat new password').fill('second-hour-88');
+	await guest.getByRole('button', { name: 'Set new password' }).click();
+	await expect(guest).toHaveURL(/\/signin\?done=reset$/);
+	await expect(guest.getByRole('status')).toContainText('Your new password is set');
+	// The reset signed out the devices that were signed in.
+	await open(mobile, '/home');
+	await expect(mobile).toHaveURL(/\/signin/);
+	await guest.getByLabel('Email').fill(email);
+	await guest.getByLabel('Password').fill('second-hour-88');
+	await guest.getByRole('button', { name: 'Sign in' }).click();
+	await expect(guest).toHaveURL(/\/home$/);
+	await expect(guest.getByTestId('start-guide')).toBeVisible();
+	await later.close();
 
 	await phone.close();
 	await context.close();

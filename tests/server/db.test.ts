@@ -1,6 +1,10 @@
 import { openDatabase, prepareDatabase } from '$lib/server/db';
 import { user } from '$lib/server/db/schema';
-import { DEMO_USERS, seedDemo } from '$lib/server/db/seed';
+import { DEMO_CLASS, DEMO_USERS, seedDemo } from '$lib/server/db/seed';
+import { assignmentFor, assignmentsOf } from '$lib/server/assignments';
+import { joinedClasses, roster, taughtClasses } from '$lib/server/classes';
+import { checkDrill, drillFor } from '$lib/server/drills';
+import { getMapping } from '$lib/server/mappings';
 import { changeRole, listUsers, RoleChangeError } from '$lib/server/users';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -82,6 +86,30 @@ describe('demo school', { timeout: 30_000 }, () => {
 		expect(await seedDemo(handle.db)).toBe(0);
 		const roles = (await listUsers(handle.db)).map((u) => u.role).sort();
 		expect(roles).toEqual(['admin', 'student', 'student', 'student', 'teacher']);
+	});
+
+	it('gives the teacher one class of two students with a valid drill due in a week, once', async () => {
+		await seedDemo(handle.db);
+		await seedDemo(handle.db);
+		const id = async (part: string) => (await listUsers(handle.db, part))[0].id;
+		const [tomas, kai, lena] = [await id('tomas@'), await id('kai@'), await id('lena@')];
+		const taught = await taughtClasses(handle.db, tomas);
+		expect(taught.map((c) => c.name)).toEqual([DEMO_CLASS.name]);
+		expect((await roster(handle.db, DEMO_CLASS.id)).map((r) => r.email).sort()).toEqual([
+			'lena@mixlab.example',
+			'omar@mixlab.example'
+		]);
+		expect(await joinedClasses(handle.db, kai)).toEqual([]);
+		const due = await assignmentsOf(handle.db, lena);
+		expect(due).toHaveLength(1);
+		const week = 7 * 24 * 3600 * 1000;
+		expect(Math.abs(due[0].dueAt.getTime() - (Date.now() + week))).toBeLessThan(60_000);
+		expect(due[0].className).toBe(DEMO_CLASS.name);
+		// The student reaches the drill through the assignment, and it fits the mapping it names.
+		const given = await assignmentFor(handle.db, lena, due[0].id);
+		const d = await drillFor(handle.db, lena, given.drillId);
+		const m = await getMapping(handle.db, lena, d.row.mappingId);
+		expect(checkDrill(d.document, m.document).targets).toHaveLength(5);
 	});
 });
 

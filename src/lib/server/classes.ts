@@ -58,7 +58,7 @@ export const inviteEmails = z
 
 // No 0/O or 1/I: codes are read aloud and copied from a projector (common practice).
 const CODE_ALPHABET = 'ABCDEFGHJKLMNPQRSTUVWXYZ23456789';
-function newJoinCode(): string {
+export function newJoinCode(): string {
 	const bytes = randomBytes(8);
 	const chars = [...bytes].map((b) => CODE_ALPHABET[b % CODE_ALPHABET.length]);
 	return `${chars.slice(0, 4).join('')}-${chars.slice(4).join('')}`;
