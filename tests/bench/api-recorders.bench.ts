@@ -45,6 +45,16 @@ async function signIn(email: string): Promise<string> {
 		.join('; ');
 }
 
+/** CPU time (user + system) the process has used so far, from Linux's /proc; null elsewhere. */
+function cpuMs(pid: number | undefined): number | null {
+	try {
+		const fields = readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1].split(' ');
+		return ((Number(fields[11]) + Number(fields[12])) * 1000) / 100; // utime, stime in clock ticks (USER_HZ = 100)
+	} catch {
+		return null;
+	}
+}
+
 const percentile = (sorted: number[], p: number) =>
 	sorted.length ? sorted[Math.min(sorted.length - 1, Math.floor(p * sorted.length))] : 0;
 
@@ -52,7 +62,9 @@ export default async function (report: (f: Figure) => void) {
 	if (!existsSync('build/index.js')) execFileSync('npx', ['vite', 'build'], { stdio: 'ignore' });
 	const dir = mkdtempSync(join(tmpdir(), 'padproof-recorders-bench-'));
 	const file = join(dir, 'bench.db');
-	const server = spawn('node', ['build'], {
+	// BENCH_NODE_ARGS="--cpu-prof --cpu-prof-dir=/tmp/prof" profiles the server (NODE_OPTIONS refuses --cpu-prof).
+	const nodeArgs = (process.env.BENCH_NODE_ARGS ?? '').split(' ').filter(Boolean);
+	const server = spawn('node', [...nodeArgs, 'build'], {
 		env: {
 			...process.env,
 			HOST: '127.0.0.1',
@@ -82,6 +94,7 @@ export default async function (report: (f: Figure) => void) {
 		const { mappings } = await (await fetch(`${ORIGIN}/api/mappings`, { headers: headersFor(0) })).json();
 		const mappingId = (mappings as { id: string; demo: boolean }[]).find((m) => m.demo)!.id;
 
+		const cpuBefore = cpuMs(server.pid);
 		const latencies: number[] = [];
 		const finishes: number[] = [];
 		let errors = 0;
@@ -152,6 +165,8 @@ export default async function (report: (f: Figure) => void) {
 			})
 		);
 
+		const cpuAfter = cpuMs(server.pid);
+
 		// Count what the server kept, in its database file.
 		const db = createClient({ url: `file:${file}` });
 		let lost = 0;
@@ -172,6 +187,13 @@ export default async function (report: (f: Figure) => void) {
 		report({ name: 'api.recorders50_p50_ms', value: Number(percentile(latencies, 0.5).toFixed(2)), unit: 'ms' });
 		report({ name: 'api.recorders50_p99_ms', value: Number(percentile(latencies, 0.99).toFixed(2)), unit: 'ms' });
 		report({ name: 'api.recorders50_finish_p99_ms', value: Number(percentile(finishes, 0.99).toFixed(2)), unit: 'ms' });
+		// The server's own CPU time per request: on a shared machine this moves far less than latency.
+		if (cpuBefore !== null && cpuAfter !== null)
+			report({
+				name: 'api.recorders50_server_cpu_ms_per_request',
+				value: Number(((cpuAfter - cpuBefore) / (latencies.length + finishes.length)).toFixed(3)),
+				unit: 'ms'
+			});
 		report({ name: 'api.recorders50_requests', value: latencies.length, unit: 'requests' });
 		report({ name: 'api.recorders50_errors', value: errors, unit: 'requests' });
 		report({ name: 'api.recorders50_lost_events', value: lost, unit: 'events' });

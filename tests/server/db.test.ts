@@ -41,6 +41,31 @@ describe('database module', () => {
 		expect(Number(timeout.rows[0][0])).toBe(5000);
 	});
 
+	it('sets up every pooled connection: commits without waiting for the disk, foreign keys on', async () => {
+		// Twenty open transactions hold the pool's twenty connections at once.
+		const held = await Promise.all(Array.from({ length: 20 }, () => handle.client.transaction('read')));
+		try {
+			for (const tx of held) {
+				expect(Number((await tx.execute('PRAGMA synchronous')).rows[0][0])).toBe(1); // NORMAL
+				expect(Number((await tx.execute('PRAGMA foreign_keys')).rows[0][0])).toBe(1);
+			}
+		} finally {
+			for (const tx of held) tx.close();
+		}
+	});
+
+	it('waits for the disk on every commit with PADPROOF_DB_SYNC=full', async () => {
+		process.env.PADPROOF_DB_SYNC = 'full';
+		const other = openDatabase(`file:${join(dir, 'full.db')}`);
+		try {
+			await prepareDatabase(other.client, other.db);
+			expect(Number((await other.client.execute('PRAGMA synchronous')).rows[0][0])).toBe(2); // FULL
+		} finally {
+			delete process.env.PADPROOF_DB_SYNC;
+			other.client.close();
+		}
+	});
+
 	it('applies migrations once: preparing twice keeps the data', async () => {
 		await handle.db.insert(user).values({ id: 'x', name: 'X', email: 'x@example.com' });
 		await prepareDatabase(handle.client, handle.db);

@@ -42,6 +42,24 @@ describe('recording a session in chunks', () => {
 		expect((await sessionDocument(t.db, t.kai, id)).session.events).toHaveLength(2);
 	});
 
+	it('counts every chunk once when many arrive at once, resends and late ones included', async () => {
+		const { id } = await createRehearsal(t.db, t.kai, { mappingId: await demoId('Two-deck pad set'), tempo: 120 });
+		const chunk = (seq: number) => ({
+			seq,
+			events: [press(seq * 250, 1 + (seq % 4)), release(seq * 250 + 100, 1 + (seq % 4))]
+		});
+		// 40 chunks in reverse order, every 4th sent three times, all without waiting for an answer.
+		const sends = Array.from({ length: 40 }, (_, i) => 39 - i).flatMap((seq) => (seq % 4 ? [seq] : [seq, seq, seq]));
+		const answers = await Promise.all(sends.map((seq) => appendChunk(t.db, t.kai, id, chunk(seq))));
+		expect(answers.filter((a) => a.stored)).toHaveLength(40);
+		expect(answers.filter((a) => a.duplicate)).toHaveLength(20);
+		const { row, session } = await sessionDocument(t.db, t.kai, id);
+		expect(row.eventCount).toBe(80);
+		expect(row.durationMs).toBe(39 * 250 + 100);
+		expect(session.events).toHaveLength(80);
+		expect(session.events.map((e) => e.t)).toEqual([...session.events.map((e) => e.t)].sort((a, b) => a - b));
+	});
+
 	it('assembles chunks that arrived out of order in time order', async () => {
 		const { id } = await createRehearsal(t.db, t.kai, { mappingId: await demoId('Two-deck pad set'), tempo: 120 });
 		await appendChunk(t.db, t.kai, id, { seq: 1, events: [press(2100, 2), release(2300, 2)] });

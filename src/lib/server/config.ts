@@ -20,6 +20,19 @@ export function databaseUrl(): string {
 	return process.env.DATABASE_URL || `file:${dataDir()}/padproof.db`;
 }
 
+/**
+ * How a local database file waits for the disk on commit. `normal` (the default): in WAL mode a
+ * commit survives a crash of the app but may roll back after a power loss or a crash of the
+ * machine; `full`: every commit waits for the disk (SQLite's `PRAGMA synchronous`,
+ * https://sqlite.org/pragma.html#pragma_synchronous).
+ */
+export function databaseSync(): 'normal' | 'full' {
+	const value = (process.env.PADPROOF_DB_SYNC ?? 'normal').toLowerCase();
+	if (value !== 'normal' && value !== 'full')
+		throw new ConfigError(`PADPROOF_DB_SYNC must be "normal" or "full", not "${process.env.PADPROOF_DB_SYNC}".`);
+	return value;
+}
+
 export function uploadsDir(): string {
 	const dir = resolve(process.env.UPLOADS_DIR ?? `${dataDir()}/uploads`);
 	mkdirSync(dir, { recursive: true });

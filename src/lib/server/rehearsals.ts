@@ -89,44 +89,62 @@ export async function appendChunk(db: Database, userId: string, id: string, chun
 	const last = chunk.events.at(-1)?.t ?? 0;
 	const n = chunk.events.length;
 	const max = limits.sessionEvents();
-	return serialWrite(() =>
-		db.transaction(async (tx) => {
-			const [row] = await tx
-				.select({ ownerId: rehearsal.ownerId, status: rehearsal.status, eventCount: rehearsal.eventCount })
-				.from(rehearsal)
-				.where(eq(rehearsal.id, id));
-			if (!row || row.ownerId !== userId)
-				throw new Refusal(404, 'That session does not exist, or it belongs to someone else.');
-			const [kept] = await tx
-				.select({ events: rehearsalChunk.events })
-				.from(rehearsalChunk)
-				.where(and(eq(rehearsalChunk.rehearsalId, id), eq(rehearsalChunk.seq, chunk.seq)));
-			if (kept) {
-				if (JSON.stringify(kept.events) === JSON.stringify(chunk.events))
-					return { stored: false, duplicate: true, eventCount: row.eventCount };
-				throw new Refusal(
-					409,
-					`The server already holds a different chunk ${chunk.seq} of this session; this one was not stored.`
-				);
-			}
-			if (row.status !== 'recording')
-				throw new Refusal(409, 'This recording is finished; events sent after “Stop” are not added to it.');
-			if (row.eventCount + n > max)
-				throw new Refusal(
-					413,
-					`A session holds at most ${max} events; this one is full. Stop it and start a new recording.`
-				);
-			await tx.insert(rehearsalChunk).values({ rehearsalId: id, seq: chunk.seq, events: chunk.events, eventCount: n });
-			await tx
-				.update(rehearsal)
-				.set({
-					eventCount: sql`${rehearsal.eventCount} + ${n}`,
-					durationMs: sql`max(${rehearsal.durationMs}, ${last})`
-				})
-				.where(eq(rehearsal.id, id));
-			return { stored: true, duplicate: false, eventCount: row.eventCount + n };
-		})
+	const events = JSON.stringify(chunk.events);
+	// One write transaction of two statements, run by the driver in one go (a batch): nothing else
+	// of this process runs while it holds the write lock, and a remote database gets one round
+	// trip. The insert happens only when the session is the user's, still recording and has room;
+	// the count grows only when the insert just added a row (`changes()` is the row count of the
+	// statement before, https://sqlite.org/lang_corefunc.html#changes).
+	const [inserted, counted] = await serialWrite(() =>
+		db.$client.batch(
+			[
+				{
+					sql: `insert into rehearsal_chunk (rehearsal_id, seq, events, event_count)
+						select id, ?, ?, ? from rehearsal
+						where id = ? and owner_id = ? and status = 'recording' and event_count + ? <= ?
+						on conflict do nothing`,
+					args: [chunk.seq, events, n, id, userId, n, max]
+				},
+				{
+					sql: `update rehearsal set event_count = event_count + ?, duration_ms = max(duration_ms, ?), updated_at = ?
+						where id = ? and changes() = 1
+						returning event_count`,
+					args: [n, last, Date.now(), id]
+				}
+			],
+			'write'
+		)
 	);
+	if (inserted.rowsAffected === 1 && counted.rows.length === 1)
+		return { stored: true, duplicate: false, eventCount: Number(counted.rows[0].event_count) };
+	// Not stored: say why, in the order a person can act on. Everything checked here only ever
+	// moves one way (a stored chunk stays, a finished session stays finished, counts only grow), so
+	// what is read now is why the insert above did not happen.
+	const [row] = await db
+		.select({ ownerId: rehearsal.ownerId, status: rehearsal.status, eventCount: rehearsal.eventCount })
+		.from(rehearsal)
+		.where(eq(rehearsal.id, id));
+	if (!row || row.ownerId !== userId)
+		throw new Refusal(404, 'That session does not exist, or it belongs to someone else.');
+	const [kept] = await db
+		.select({ events: sql<string>`${rehearsalChunk.events}` })
+		.from(rehearsalChunk)
+		.where(and(eq(rehearsalChunk.rehearsalId, id), eq(rehearsalChunk.seq, chunk.seq)));
+	if (kept) {
+		if (kept.events === events) return { stored: false, duplicate: true, eventCount: row.eventCount };
+		throw new Refusal(
+			409,
+			`The server already holds a different chunk ${chunk.seq} of this session; this one was not stored.`
+		);
+	}
+	if (row.status !== 'recording')
+		throw new Refusal(409, 'This recording is finished; events sent after “Stop” are not added to it.');
+	if (row.eventCount + n > max)
+		throw new Refusal(
+			413,
+			`A session holds at most ${max} events; this one is full. Stop it and start a new recording.`
+		);
+	throw new Error(`chunk ${chunk.seq} of session ${id} was neither stored nor refused`);
 }
 
 export async function sessionDocument(

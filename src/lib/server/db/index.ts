@@ -1,16 +1,24 @@
-import { createClient, type Client } from '@libsql/client';
+import { createClient, type Client, type Transaction } from '@libsql/client';
 import { drizzle } from 'drizzle-orm/libsql';
 import { migrate } from 'drizzle-orm/libsql/migrator';
 import { mkdirSync } from 'node:fs';
 import { dirname } from 'node:path';
-import { databaseUrl } from '../config';
+import { databaseSync, databaseUrl } from '../config';
 import * as schema from './schema';
 import { upgradeStoredMappings } from './upgrade-documents';
+
+/** Connections the client keeps to a local file (@libsql/client's default, stated here because prepareDatabase sets each up). */
+const CONNECTIONS = 20;
 
 export function openDatabase(url = databaseUrl()) {
 	if (url.startsWith('file:')) mkdirSync(dirname(url.slice('file:'.length)), { recursive: true });
 	// `timeout` is the busy timeout of every pooled connection to a local file (transactions get their own).
-	const client = createClient({ url, authToken: process.env.DATABASE_AUTH_TOKEN, timeout: 5000 });
+	const client = createClient({
+		url,
+		authToken: process.env.DATABASE_AUTH_TOKEN,
+		timeout: 5000,
+		concurrency: CONNECTIONS
+	});
 	return { client, db: drizzle(client, { schema, casing: 'snake_case' }) };
 }
 
@@ -29,12 +37,39 @@ export function serialWrite<T>(work: () => Promise<T>): Promise<T> {
 	return run;
 }
 
+/**
+ * Sets the per-connection settings on every connection of a local file's pool: foreign keys, and
+ * how commits wait for the disk (config.ts `databaseSync`). Waiting for the disk on every commit
+ * (`synchronous = FULL`) made a chunk append wait for an fsync of several milliseconds, on the
+ * event loop, since the driver is synchronous (see tests/bench/api-recorders.bench.ts).
+ *
+ * The pool opens connections lazily and has no hook for new ones, so each is opened here: a
+ * transaction holds a connection, `ROLLBACK` in the same script ends it (a safety level cannot be
+ * changed inside a transaction) and the pragmas follow on that connection. A connection the pool
+ * opens later (after dropping a broken one) keeps SQLite's default, FULL: only slower, never less safe.
+ */
+async function setUpConnections(client: Client) {
+	const sync = databaseSync();
+	const held: Transaction[] = [];
+	try {
+		for (let i = 0; i < CONNECTIONS; i++) {
+			// An in-memory database has one connection: the second transaction is refused at once.
+			const tx = await client.transaction('deferred').catch(() => null);
+			if (!tx) break;
+			held.push(tx);
+			await tx.executeMultiple(`ROLLBACK; PRAGMA synchronous = ${sync}; PRAGMA foreign_keys = ON;`);
+		}
+	} finally {
+		for (const tx of held) tx.close();
+	}
+}
+
 /** Brings a database up to the newest schema and documents; a local file also gets WAL and a busy timeout. */
 export async function prepareDatabase(client: Client, db: Database, migrationsFolder = 'drizzle') {
 	if (client.protocol === 'file') {
 		await client.execute('PRAGMA journal_mode = WAL');
 		await client.execute('PRAGMA busy_timeout = 5000');
-		await client.execute('PRAGMA foreign_keys = ON');
+		await setUpConnections(client);
 	}
 	await migrate(db, { migrationsFolder });
 	await upgradeStoredMappings(db);
