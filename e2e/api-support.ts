@@ -3,6 +3,7 @@
 // upload folder of the server under test.
 import { createClient } from '@libsql/client';
 import { request, type APIRequestContext } from '@playwright/test';
+import { parse } from 'devalue';
 import { createHash } from 'node:crypto';
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
@@ -241,4 +242,20 @@ export async function userIdOf(email: string): Promise<string> {
 	} finally {
 		db.close();
 	}
+}
+
+/**
+ * An API token of `ctx`'s person, made through the account page's form as the browser's
+ * enhanced form does (the action answers JSON whose data SvelteKit encodes with devalue).
+ */
+export async function newToken(ctx: APIRequestContext, name = `Matrix token ${Math.random()}`): Promise<string> {
+	const r = await ctx.post('/account?/createToken', {
+		form: { name, expires: '30' },
+		headers: { accept: 'application/json', 'x-sveltekit-action': 'true' }
+	});
+	const body = (await r.json()) as { type: string; data?: string };
+	if (body.type !== 'success' || !body.data) throw new Error(`token not made: ${JSON.stringify(body)}`);
+	const data = parse(body.data) as { created?: { id: string } };
+	if (!data.created?.id) throw new Error('the account form answered no token id');
+	return data.created.id;
 }

@@ -20,6 +20,7 @@ import {
 	freshAccount,
 	FRESH_PASSWORD,
 	joinClass,
+	newToken,
 	newAssignment,
 	newClass,
 	newDrill,
@@ -784,6 +785,23 @@ const ROUTES: Row[] = [
 		body: () => ({ form: { password: FRESH_PASSWORD, confirm: 'on' } }),
 		actor: freshPerson,
 		expect: all(303) // to the sign-in page, with the account gone
+	},
+	{
+		name: 'create an API token (account form, a new account of each kind)',
+		method: 'POST',
+		path: () => '/account?/createToken',
+		body: () => ({ form: { name: 'Matrix script', expires: '30' } }),
+		actor: freshPerson,
+		expect: { ...all(200), anonymous: 303 }
+	},
+	{
+		name: 'revoke an API token (account form)',
+		method: 'POST',
+		path: () => '/account?/revokeToken',
+		body: (_f, fresh) => ({ form: { id: fresh } }),
+		fresh: () => newToken(as.student),
+		// Someone else's token answers like a missing one.
+		expect: { ...all(404), anonymous: 303, student: 200 }
 	},
 	{ name: 'help page', method: 'GET', path: () => '/help', expect: all(200) },
 	{
