@@ -264,6 +264,34 @@ for (const [effect, params, mix] of [
 	});
 }
 
+// A press that changes a position's effect takes an instance built before play (the room builds
+// what the mapping may load) or one swapped out a moment ago; either must sound exactly like one
+// built on first use. Echo arithmetic as above: 1/8 at 128 BPM = 234.375 ms (REFERENCES.md).
+for (const [from, path] of [
+	['filter', 'built before play'],
+	['echo', 'swapped out and taken back']
+] as const) {
+	test(`an echo ${path} sounds like one built on first use and repeats the click`, async () => {
+		const time = paramForDivision('echo', 1, '1/8');
+		const start = chained([[from, [time, 0.6, 1]]], { mix: 0.5 });
+		const changes: RigChange[] =
+			from === 'filter'
+				? [{ t: 300, event: 0, path: 'racks.0.chain.0.effect', from: 'filter', to: 'echo' }]
+				: [
+						{ t: 200, event: 0, path: 'racks.0.chain.0.effect', from: 'echo', to: 'filter' },
+						{ t: 400, event: 1, path: 'racks.0.chain.0.effect', from: 'filter', to: 'echo' }
+					];
+		const spec: RenderSpec = { seconds: 1.4, tempo: 128, tap: 'A', decks: click(0.8), state: rig(start), changes };
+		const reach = [{ effects: [['echo', 'filter'], [], [], []] as EffectId[][], decks: ['A' as const] }];
+		const [prepared, firstUse] = await Promise.all([render({ ...spec, prepare: reach }), render(spec)]);
+		const [direct, echo] = peaks(prepared.channels[0], 0.05, 2);
+		expect(ms(direct)).toBeCloseTo(800, 3);
+		expect(Math.abs(ms(echo - direct) - 234.375)).toBeLessThanOrEqual(1);
+		// Same nodes, same changes at the same times: the same samples (float rounding aside).
+		expect(M.maxDifferenceDb(prepared.channels[0], firstUse.channels[0])).toBeLessThan(-100);
+	});
+}
+
 /** Energy of the first difference over energy: about 2 for white noise, near 0 once low-passed. */
 function brightness(x: Float32Array): number {
 	let energy = 0;

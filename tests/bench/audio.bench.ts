@@ -3,7 +3,9 @@
 // the audio rig; see audio-harness/live.ts), beside the browser's audio.base_latency_ms and
 // audio.output_latency_ms. audio.live_scheduled_ms_p99 is the time the rig was given alone, and
 // audio.live_handling_ms_p99 the main-thread time an event's handling took: where the two
-// differ, building the change (not the clock) delayed it.
+// differ, building the change (not the clock) delayed it. audio.live_prepared_effects and
+// audio.live_prepare_ms: the effect instances the rig built before play (as the room does when
+// sound starts) and how long that took.
 // Headless Chromium on a machine without a sound card plays into a fake output device and
 // reports its latencies (seen here: base 10 ms, output ~32 ms at 44.1 kHz).
 // audio.render_x_realtime: offline render speed in Chromium for four decks playing demo loops
@@ -96,6 +98,8 @@ export default async function audioBench(report: (f: Figure) => void) {
 							handlingMs: number[];
 							baseLatencyMs: number;
 							outputLatencyMs: number;
+							prepared: number;
+							prepareMs: number;
 						}>;
 					}
 				).padproofLive(n),
@@ -106,6 +110,8 @@ export default async function audioBench(report: (f: Figure) => void) {
 		report({ name: 'audio.live_added_ms_p50', value: round2(p50(live.addedMs)), unit: 'ms' });
 		report({ name: 'audio.live_scheduled_ms_p99', value: round2(p99(live.scheduledMs)), unit: 'ms' });
 		report({ name: 'audio.live_handling_ms_p99', value: round2(p99(live.handlingMs)), unit: 'ms' });
+		report({ name: 'audio.live_prepared_effects', value: live.prepared, unit: 'instances' });
+		report({ name: 'audio.live_prepare_ms', value: round2(live.prepareMs), unit: 'ms' });
 		// A browser that does not know a latency leaves it out.
 		if (Number.isFinite(live.baseLatencyMs))
 			report({ name: 'audio.base_latency_ms', value: round2(live.baseLatencyMs), unit: 'ms' });

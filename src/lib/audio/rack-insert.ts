@@ -1,7 +1,8 @@
 // One rack as an insert on one deck: dry and wet (equal-power, DESIGN.md §5) around its chain,
 // up to four positions in series, each with its own effect, on and three parameters. It follows
-// the rack's state; effect instances are built the first time the rack is routed to this deck
-// and replaced with a short crossfade when a position's effect changes.
+// the rack's state; effect instances are built before the first press when the rig is told what a
+// mapping may load (prepare), else the first time the rack is routed to this deck, and a position's
+// effect changes with a short crossfade to an instance it keeps.
 import { Gain } from 'tone';
 import { CHAIN_MAX, type DeckId, type EffectId, type RackState } from '$lib/engine/types';
 import type { BeatClock } from './beat-clock';
@@ -19,17 +20,43 @@ interface Loaded {
 	engaged: boolean;
 }
 
-/** One chain position between two summing nodes it shares with its neighbours; the effect's output level is its wet. */
+/**
+ * One chain position between two summing nodes it shares with its neighbours; the effect's output
+ * level is its wet. It keeps one instance per effect it has held (or was told it may hold): an
+ * effect swapped out rings down, then waits with its input unplugged until it is loaded again, so a
+ * press that changes the effect only moves gains and parameters instead of building nodes.
+ */
 class PositionStage {
 	#bypass = new Gain(1);
 	loaded: Loaded | null = null;
 	#retired: (Loaded & { until: number })[] = [];
+	#idle = new Map<EffectId, RackEffect>();
 
 	constructor(
 		readonly input: Gain,
 		readonly output: Gain
 	) {
 		this.input.chain(this.#bypass, this.output);
+	}
+
+	/** Instances this position holds (loaded, ringing down or waiting), for tests and the bench. */
+	get instances(): number {
+		return (this.loaded ? 1 : 0) + this.#retired.length + this.#idle.size;
+	}
+
+	/** Builds a waiting instance of each effect not held yet; answers how many it built. */
+	prepare(ids: readonly EffectId[], options: EffectOptions, budget: number): number {
+		let built = 0;
+		for (const id of ids) {
+			if (built >= budget) break;
+			if (this.loaded?.id === id || this.#idle.has(id) || this.#retired.some((l) => l.id === id)) continue;
+			const effect = createEffect(id, options);
+			effect.output.gain.setValueAtTime(0, 0);
+			effect.output.connect(this.output);
+			this.#idle.set(id, effect);
+			built++;
+		}
+		return built;
 	}
 
 	load(id: EffectId | null, options: EffectOptions, time: number) {
@@ -42,10 +69,21 @@ class PositionStage {
 			this.loaded = null;
 		}
 		if (id === null) return;
-		const effect = createEffect(id, options);
-		effect.output.gain.setValueAtTime(0, 0); // silent until the position engages (a past time: at once)
+		const ringing = this.#retired.findIndex((l) => l.id === id);
+		if (ringing >= 0) {
+			// Swapped out a moment ago and still plugged in: take it back as it is.
+			const [back] = this.#retired.splice(ringing, 1);
+			this.loaded = { id, effect: back.effect, engaged: false };
+			return;
+		}
+		let effect = this.#idle.get(id);
+		if (effect) this.#idle.delete(id);
+		else {
+			effect = createEffect(id, options);
+			effect.output.gain.setValueAtTime(0, 0); // silent until the position engages (a past time: at once)
+			effect.output.connect(this.output);
+		}
 		this.input.connect(effect.input);
-		effect.output.connect(this.output);
 		this.loaded = { id, effect, engaged: false };
 	}
 
@@ -59,19 +97,34 @@ class PositionStage {
 		loaded.engaged = active;
 	}
 
-	/** Releases effects swapped out a while ago (a long rehearsal swaps many). */
+	setTempo(bpm: number, time: number) {
+		for (const effect of this.#all()) effect.setTempo(bpm, time);
+	}
+
+	/** Effects swapped out a while ago have rung down: unplug their input and keep them waiting. */
 	#sweep() {
 		const now = this.input.context.currentTime;
 		this.#retired = this.#retired.filter((l) => {
 			if (l.until > now) return true;
-			l.effect.dispose();
+			this.input.disconnect(l.effect.input);
+			if (this.#idle.has(l.id)) l.effect.dispose();
+			else this.#idle.set(l.id, l.effect);
 			return false;
 		});
 	}
 
+	#all(): RackEffect[] {
+		return [
+			...this.#retired.map((l) => l.effect),
+			...(this.loaded ? [this.loaded.effect] : []),
+			...this.#idle.values()
+		];
+	}
+
 	dispose() {
-		for (const l of [...this.#retired, ...(this.loaded ? [this.loaded] : [])]) l.effect.dispose();
+		for (const effect of this.#all()) effect.dispose();
 		this.#retired = [];
+		this.#idle.clear();
 		this.loaded = null;
 		this.#bypass.dispose();
 	}
@@ -145,7 +198,25 @@ export class RackInsert {
 
 	setTempo(bpm: number, time: number) {
 		this.#bpm = bpm;
-		for (const stage of this.#positions) stage.loaded?.effect.setTempo(bpm, time);
+		for (const stage of this.#positions) stage.setTempo(bpm, time);
+	}
+
+	/**
+	 * Builds this insert and a waiting instance of each effect a position may hold (`effects[i]`
+	 * for position i), at most `budget` in all; answers how many it built.
+	 */
+	prepare(effects: readonly (readonly EffectId[])[], budget: number): number {
+		if (!this.#built) this.#build();
+		let built = 0;
+		this.#positions.forEach((stage, i) => {
+			built += stage.prepare(effects[i] ?? [], { bpm: this.#bpm, clock: this.clock }, budget - built);
+		});
+		return built;
+	}
+
+	/** Effect instances held by this insert's positions, for tests and the bench. */
+	get instances(): number {
+		return this.#positions.reduce((n, s) => n + s.instances, 0);
 	}
 
 	/** Effects currently loaded, for tests and the sounds page. */

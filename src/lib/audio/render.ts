@@ -2,6 +2,7 @@
 // a list of engine changes, recorded at the master or at one deck's output. Used for WAV export
 // of a rehearsal and by the browser tests that measure the sound.
 import { OfflineContext, connect, getContext, setContext } from 'tone';
+import type { RackReach } from '$lib/engine/reach';
 import { runEvents } from '$lib/engine/replay';
 import { initialRigState } from '$lib/engine/rig';
 import { DECK_IDS, type DeckId, type InputEvent, type Mapping, type RigChange, type RigState } from '$lib/engine/types';
@@ -29,6 +30,8 @@ export interface RenderSpec {
 	tap?: 'master' | DeckId;
 	masterDb?: number;
 	lookAhead?: number;
+	/** Effects to build before play, as the rehearsal room does (engine `mappingReach`). */
+	prepare?: RackReach[];
 }
 
 export interface Rendered {
@@ -68,6 +71,7 @@ async function renderNow(spec: RenderSpec): Promise<Rendered> {
 			lookAhead: spec.lookAhead
 		});
 		lookAhead = rig.lookAhead;
+		if (spec.prepare) rig.prepare(spec.prepare);
 		rig.master.setLevel(spec.masterDb ?? 0, 0);
 		for (const d of DECK_IDS) {
 			const setup = spec.decks?.[d];

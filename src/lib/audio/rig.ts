@@ -4,6 +4,7 @@
 // event's time on a frame, plus a look-ahead when it runs in real time. All changes of one event
 // land on the same audio frame.
 import { getContext, setContext, type BaseContext } from 'tone';
+import type { RackReach } from '$lib/engine/reach';
 import { DECK_IDS, type DeckId, type RigChange, type RigState } from '$lib/engine/types';
 import { BeatClock } from './beat-clock';
 import { DeckChannel } from './deck';
@@ -18,6 +19,12 @@ import { changeTime, onFrame } from './schedule-time';
  * following its cursor): changes keep their spacing even when a frame hands over several.
  */
 export const LOOK_AHEAD = 0.04;
+
+/**
+ * Effect instances a live rig builds ahead of play at most (a mapping reaching further builds the
+ * rest on first use). Each waits with its input unplugged, so it costs memory, not render time.
+ */
+export const PREPARE_BUDGET = 96;
 
 export interface AudioRigOptions {
 	tempo?: number;
@@ -109,6 +116,23 @@ export class AudioRig {
 		for (const d of DECK_IDS) this.decks[d].ensureRacks(state.racks.length);
 		const touched = { racks: new Set(state.racks.map((_, i) => i)), decks: new Set<string>(DECK_IDS) };
 		within(this.context, () => this.#follow(touched, time));
+	}
+
+	/**
+	 * Builds ahead of play the inserts and effect instances a mapping may use (engine
+	 * `mappingReach`), so no press waits for nodes to be made. Answers how many instances it built.
+	 */
+	prepare(reach: readonly RackReach[], budget = PREPARE_BUDGET): number {
+		return within(this.context, () => {
+			let built = 0;
+			reach.forEach((rack, r) => {
+				for (const d of rack.decks) {
+					this.decks[d].ensureRacks(r + 1);
+					built += this.decks[d].inserts[r].prepare(rack.effects, budget - built);
+				}
+			});
+			return built;
+		});
 	}
 
 	setTempo(bpm: number, time = this.context.currentTime): void {

@@ -19,6 +19,7 @@ export { beatAt, constantClock, gridLine, tempoAt, timeAtBeat, withTempo, type T
 export { FINDING_INFO, findingKind, numberedFinding, storedFinding, type FindingInfo } from './findings';
 export { applyEvent, applyEvents, chainSounds, guardHolds, initialRigState, initialRack, isAudible } from './rig';
 export { addressText, bindingName, inputName, racksOf } from './watch';
+export { mappingReach, type RackReach } from './reach';
 export { clockFor, engageAt, scheduleEvents, DEFAULT_TEMPO, type Clock, type Scheduled } from './schedule';
 export { replay, runEvents, AudibleTracker, type ReplayOptions } from './replay';
 export { analyze, whySilent } from './analyze';

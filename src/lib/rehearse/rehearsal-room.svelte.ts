@@ -5,6 +5,7 @@
 import { createActor, type Actor } from 'xstate';
 import {
 	initialRigState,
+	mappingReach,
 	rigMachine,
 	sessionStart,
 	withTempo,
@@ -175,12 +176,16 @@ export class RehearsalRoom {
 	}
 
 	startSound(): Promise<void> {
-		return this.sound.start(this.state, () => {
-			const now = this.roomNow();
-			this.clock.origin = now;
-			this.#actor?.send({ type: 'tempo', bpm: this.clock.tempo, origin: now });
-			return now;
-		});
+		return this.sound.start(
+			this.state,
+			() => {
+				const now = this.roomNow();
+				this.clock.origin = now;
+				this.#actor?.send({ type: 'tempo', bpm: this.clock.tempo, origin: now });
+				return now;
+			},
+			mappingReach(this.mapping)
+		);
 	}
 
 	/** Starts recording, after a one-bar count-in when that is on. */

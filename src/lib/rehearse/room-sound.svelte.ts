@@ -3,7 +3,7 @@
 // starts (after a gesture and the hearing caution), so without Web Audio the room still plays
 // pads and shows findings. Deck play/stop here is the loop transport only: whether a deck counts
 // as playing for the findings is the engine's rig state, which a mapping changes with its steps.
-import { DECK_IDS, type DeckId, type RigChange, type RigState } from '$lib/engine';
+import { DECK_IDS, type DeckId, type RackReach, type RigChange, type RigState } from '$lib/engine';
 import { DEMO_LOOPS, findLoop } from '$lib/audio/loops/patterns';
 import { DEFAULT_MASTER_DB } from '$lib/audio/mix';
 import type { AudioRig } from '$lib/audio/rig';
@@ -62,9 +62,10 @@ export class RoomSound {
 	/**
 	 * Must run inside a user gesture. `state`: the rig as it stands, so sound joins mid-session.
 	 * `beginBeat` restarts the room's beat clock at this moment and returns the room time it did:
-	 * the loops' beat 0 is then the same instant on the audio clock.
+	 * the loops' beat 0 is then the same instant on the audio clock. `reach`: what the mapping may
+	 * load, built before "running" so the first press of each pad does not wait for nodes.
 	 */
-	async start(state: RigState, beginBeat: () => number): Promise<void> {
+	async start(state: RigState, beginBeat: () => number, reach: readonly RackReach[] = []): Promise<void> {
 		if (this.status !== 'idle') return;
 		this.status = 'starting';
 		try {
@@ -75,6 +76,7 @@ export class RoomSound {
 			const roomTime = beginBeat();
 			// A live rig: a pad's changes sound from the next render quantum, not behind a look-ahead.
 			this.#rig = await AudioRig.create({ tempo: this.#clock.tempo, origin: now, live: true, state });
+			this.#rig.prepare(reach);
 			// Session time 0 (room ms 0) on the audio clock: the loops' and the metronome's beat grid.
 			this.#rig.origin = now - roomTime / 1000;
 			this.#rig.master.setLevel(this.masterDb, ctx.currentTime);

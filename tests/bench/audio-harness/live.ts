@@ -13,6 +13,7 @@ import { findLoop } from '$lib/audio/loops/patterns';
 import { demoMapping } from '$lib/engine/demo';
 import { rigMachine } from '$lib/engine/machines/rig';
 import { initialRigState } from '$lib/engine/rig';
+import { mappingReach } from '$lib/engine/reach';
 
 export interface LiveMeasure {
 	addedMs: number[];
@@ -23,6 +24,9 @@ export interface LiveMeasure {
 	baseLatencyMs: number;
 	outputLatencyMs: number;
 	sampleRate: number;
+	/** Effect instances built before play, and the time that took (ms). */
+	prepared: number;
+	prepareMs: number;
 }
 
 const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
@@ -38,6 +42,10 @@ export async function measureLive(events: number): Promise<LiveMeasure> {
 		live: true,
 		state: initialRigState(mapping)
 	});
+	// As the rehearsal room does when sound starts: build what the mapping may load before play.
+	const prepareStarted = performance.now();
+	const prepared = rig.prepare(mappingReach(mapping));
+	const prepareMs = performance.now() - prepareStarted;
 	rig.master.setLevel(-40, context.currentTime);
 	rig.master.output.toDestination();
 	rig.setLoop('A', findLoop('glass-steps'));
@@ -74,7 +82,9 @@ export async function measureLive(events: number): Promise<LiveMeasure> {
 		handlingMs,
 		baseLatencyMs: typeof raw.baseLatency === 'number' ? raw.baseLatency * 1000 : latency.baseLatencyMs,
 		outputLatencyMs: typeof raw.outputLatency === 'number' ? raw.outputLatency * 1000 : latency.outputLatencyMs,
-		sampleRate: raw.sampleRate
+		sampleRate: raw.sampleRate,
+		prepared,
+		prepareMs
 	};
 }
 

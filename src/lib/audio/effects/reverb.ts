@@ -10,6 +10,9 @@ const SWAP = 0.04; // seconds of crossfade when size or decay makes a new impuls
  * with a short crossfade between two convolvers; the second is made at the first swap, since a
  * convolver costs on every frame. The tail is convolved once, in mono (half the cost of a stereo
  * pair offline), and spread by giving the right side a few ms more delay.
+ * Live, a new response is made in a task of its own after the press that asked for it (making it
+ * and handing it to the convolver takes tens of milliseconds): the press sounds at once through
+ * the room it had, and the new room fades in a moment later. Offline it is made at once.
  */
 export class Reverb extends RackEffect {
 	readonly id = 'reverb';
@@ -23,6 +26,7 @@ export class Reverb extends RackEffect {
 	#live = 1;
 	#seed = 1;
 	#shape = '';
+	#pending: ReturnType<typeof setTimeout> | null = null;
 
 	constructor(options: EffectOptions) {
 		super(options);
@@ -38,8 +42,24 @@ export class Reverb extends RackEffect {
 		if (param === 'damping') rampParam(this.#damping.frequency, this.scaled('damping'), time, 0.005);
 		if (param === 'size') rampParam(this.#predelay.delayTime, 0.005 + 0.05 * this.values.size, time, 0);
 		if ((param === 'size' || param === 'decay') && this.values.size !== undefined && this.values.decay !== undefined) {
-			this.#swap(time);
+			if (this.context.isOffline || this.#rooms.length === 0) this.#swap(time);
+			else this.#later(time);
 		}
+	}
+
+	/** One swap per burst of changes, in a task after the current one, no earlier than `time`. */
+	#later(time: number) {
+		if (this.#pending !== null) return;
+		this.#pending = setTimeout(() => {
+			this.#pending = null;
+			this.#swap(Math.max(time, this.context.currentTime));
+		}, 0);
+	}
+
+	dispose() {
+		if (this.#pending !== null) clearTimeout(this.#pending);
+		this.#pending = null;
+		super.dispose();
 	}
 
 	#swap(time: number) {
