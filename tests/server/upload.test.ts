@@ -1,7 +1,7 @@
 // Uploads stream under the app's own limits, their kind read from their bytes; JSON bodies too.
 import { readJson, Refusal } from '$lib/server/http';
 import { sniffAudio } from '$lib/server/sniff';
-import { receiveUpload } from '$lib/server/upload';
+import { receiveFormUpload, receiveUpload } from '$lib/server/upload';
 import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -174,5 +174,71 @@ describe('JSON bodies', () => {
 	it('refuses a file that is no JSON with 415 and broken JSON with 400', async () => {
 		expect((await refusal(readJson(post(webm), Doc))).status).toBe(415);
 		expect((await refusal(readJson(post('{"name": '), Doc))).status).toBe(400);
+	});
+});
+
+describe('a form with a file streams the file to disk', () => {
+	/** A browser's multipart form (the Fetch standard's FormData encoding), as a request body. */
+	function form(parts: Record<string, string | { name: string; bytes: Uint8Array; type?: string }>) {
+		const data = new FormData();
+		for (const [key, value] of Object.entries(parts))
+			if (typeof value === 'string') data.append(key, value);
+			else
+				data.append(
+					key,
+					new Blob([Uint8Array.from(value.bytes)], { type: value.type ?? 'application/octet-stream' }),
+					value.name
+				);
+		return new Request('http://localhost/form', { method: 'POST', body: data });
+	}
+
+	it('reads the text fields and writes the file byte for byte, its kind from its bytes', async () => {
+		const bytes = wav(200_000); // 400 kB, several pieces of the stream
+		const got = await receiveFormUpload(
+			form({ rehearsalId: 'take-1', audio: { name: 'take.webm', bytes, type: 'text/plain' } }),
+			'audio',
+			rules(1 << 20)
+		);
+		expect(got.fields).toEqual({ rehearsalId: 'take-1' });
+		expect(got.file).toMatchObject({ name: 'take.webm', bytes: bytes.length, kind: { mime: 'audio/wav' } });
+		expect(readFileSync(got.file!.path).equals(Buffer.from(bytes))).toBe(true);
+		rmSync(got.file!.path);
+	});
+
+	it('answers no file when none was chosen (an empty part without a name), and refuses a chosen empty file', async () => {
+		const none = await receiveFormUpload(
+			form({ rehearsalId: 'take-1', audio: { name: '', bytes: new Uint8Array(0) } }),
+			'audio',
+			rules(1000)
+		);
+		expect(none).toEqual({ fields: { rehearsalId: 'take-1' }, file: null });
+		const e = await refusal(
+			receiveFormUpload(form({ audio: { name: 'silence.wav', bytes: new Uint8Array(0) } }), 'audio', rules(1000))
+		);
+		expect(e.status).toBe(400);
+		expect(e.message).toContain('“silence.wav” is empty');
+		expect(incoming()).toEqual([]);
+	});
+
+	it('refuses a file over the limit (413) and one that is no audio (415), keeping nothing', async () => {
+		const big = await refusal(
+			receiveFormUpload(form({ audio: { name: 'long.wav', bytes: wav(300_000) } }), 'audio', rules(100_000))
+		);
+		expect(big.status).toBe(413);
+		const picture = await refusal(
+			receiveFormUpload(form({ audio: { name: 'take.webm', bytes: png, type: 'audio/webm' } }), 'audio', rules(1 << 20))
+		);
+		expect(picture.status).toBe(415);
+		expect(picture.message).toBe('not audio');
+		expect(incoming()).toEqual([]);
+	});
+
+	it('refuses a body that is not a multipart form with 415', async () => {
+		const request = new Request('http://localhost/form', {
+			method: 'POST',
+			body: 'rehearsalId=take-1',
+			headers: { 'content-type': 'application/x-www-form-urlencoded' }
+		});
+		expect((await refusal(receiveFormUpload(request, 'audio', rules(1000)))).status).toBe(415);
 	});
 });

@@ -5,9 +5,9 @@ import { drillBrief, takesOf } from '$lib/server/drills';
 import { pageRefusal, Refusal } from '$lib/server/http';
 import { requireArea } from '$lib/server/roles';
 import { describeContent, sniffAudio } from '$lib/server/sniff';
-import { incomingDir, uploadStore } from '$lib/server/storage';
-import { writeFile } from 'node:fs/promises';
-import { join } from 'node:path';
+import { uploadStore } from '$lib/server/storage';
+import { receiveFormUpload, type FormUpload } from '$lib/server/upload';
+import { rm } from 'node:fs/promises';
 import { rehearsal, submission } from '$lib/server/db/schema';
 import { fail, redirect } from '@sveltejs/kit';
 import { and, eq, inArray } from 'drizzle-orm';
@@ -15,7 +15,7 @@ import { randomUUID } from 'node:crypto';
 import { z } from 'zod';
 import type { Actions, PageServerLoad } from './$types';
 
-/** Audio handed in with a form (adapter-node's body limit applies; see README). */
+/** Audio handed in with the form, streamed to disk under this limit (the server's body limit is lifted; see README). */
 const MAX_FORM_AUDIO = 50 * 1024 * 1024;
 
 export const load: PageServerLoad = async ({ locals, params }) => {
@@ -79,33 +79,33 @@ export const load: PageServerLoad = async ({ locals, params }) => {
 export const actions: Actions = {
 	submit: async ({ locals, params, request }) => {
 		const user = requireArea(locals, 'app');
-		const form = await request.formData();
+		let form: FormUpload<{ ext: string; mime: string }>;
+		try {
+			// The audio streams to a temporary file as it arrives, its kind read from its bytes.
+			form = await receiveFormUpload(request, 'audio', {
+				limit: MAX_FORM_AUDIO,
+				tooLarge: 'The audio file is larger than 50 MB; hand in a shorter recording.',
+				sniff: sniffAudio,
+				wrongKind: async (head) =>
+					`Audio must be WebM, Ogg, WAV, MP4 or MP3; this file is ${await describeContent(head)}.`
+			});
+		} catch (e) {
+			if (e instanceof Refusal) return fail(e.status, { message: e.message });
+			throw e;
+		}
 		const parsed = z
 			.object({ rehearsalId: z.string().min(1, { error: 'Choose one of your takes.' }).max(64) })
-			.safeParse({ rehearsalId: form.get('rehearsalId') ?? '' });
-		if (!parsed.success) return fail(400, { message: parsed.error.issues[0].message });
-		const file = form.get('audio');
-		let audio: { file: string; type: string } | null = null;
+			.safeParse({ rehearsalId: form.fields.rehearsalId ?? '' });
 		const store = uploadStore();
-		// A browser sends an empty part without a name when no file was chosen; a chosen empty file is refused.
-		if (file instanceof File && file.size === 0 && file.name)
-			return fail(400, {
-				message: `The audio file “${file.name.slice(0, 80)}” is empty; choose the recording again, or hand in without audio.`
-			});
-		if (file instanceof File && file.size > 0) {
-			if (file.size > MAX_FORM_AUDIO) return fail(413, { message: 'The audio file is larger than 50 MB.' });
-			const bytes = new Uint8Array(await file.arrayBuffer());
-			// The kind is read from the bytes, never from the name or the browser's word for it.
-			const kind = await sniffAudio(bytes.subarray(0, 4100));
-			if (!kind)
-				return fail(415, {
-					message: `Audio must be WebM, Ogg, WAV, MP4 or MP3; this file is ${await describeContent(bytes.subarray(0, 4100))}.`
-				});
-			const name = `submission-${randomUUID()}.${kind.ext}`;
-			const temp = join(incomingDir(), `${name}.part`);
-			await writeFile(temp, bytes);
-			await store.put(temp, name, kind.mime);
-			audio = { file: name, type: kind.mime };
+		if (!parsed.success) {
+			if (form.file) await rm(form.file.path, { force: true });
+			return fail(400, { message: parsed.error.issues[0].message });
+		}
+		let audio: { file: string; type: string } | null = null;
+		if (form.file) {
+			const name = `submission-${randomUUID()}.${form.file.kind.ext}`;
+			await store.put(form.file.path, name, form.file.kind.mime);
+			audio = { file: name, type: form.file.kind.mime };
 		}
 		let id: string;
 		try {
