@@ -2,12 +2,14 @@ import {
 	analyze,
 	demoMapping,
 	padId,
+	parseDrill,
+	scoreDrill,
 	sessionEvents,
 	sessionFromEvents,
 	type SessionDocument,
 	type SessionEvent
 } from '$lib/engine';
-import { countFindingsOffThread, stopAnalysisWorkers } from '$lib/server/analysis/pool';
+import { countFindingsOffThread, scoreOffThread, stopAnalysisWorkers } from '$lib/server/analysis/pool';
 import { afterAll, describe, expect, it } from 'vitest';
 
 afterAll(() => stopAnalysisWorkers());
@@ -56,5 +58,31 @@ describe('whole-session analysis in a worker thread', () => {
 		const mapping = demoMapping('two-deck');
 		await expect(countFindingsOffThread({ mapping, session: null as never })).rejects.toThrow();
 		expect(await countFindingsOffThread({ mapping, session: session([press(0, 1), release(100, 1)]) })).toBe(0);
+	});
+});
+
+describe('scoring a take in a worker thread', () => {
+	it('gives the same score as the engine on this thread', { timeout: 60_000 }, async () => {
+		const mapping = demoMapping('two-deck');
+		// Pads 1–4 on every beat of 16 bars at 120 BPM (a beat is 500 ms), played a little late and early.
+		const parsed = parseDrill({
+			version: 1,
+			name: 'Steady row',
+			tempo: 120,
+			countInBars: 1,
+			lengthBars: 16,
+			targets: Array.from({ length: 64 }, (_, i) => ({ input: padId(1 + (i % 4)), beat: i, beats: 0.5 }))
+		});
+		if (!parsed.ok) throw new Error(JSON.stringify(parsed.problems));
+		const zero = 2000;
+		const take = session(
+			Array.from({ length: 60 }, (_, i) => {
+				const t = zero + i * 500 + ((i % 5) - 2) * 9;
+				return [press(t, 1 + (i % 4)), release(t + 240, 1 + (i % 4))];
+			}).flat()
+		);
+		const here = scoreDrill(parsed.drill, mapping, take, { zero });
+		expect(here.hits).toBe(60);
+		expect(await scoreOffThread({ drill: parsed.drill, mapping, session: take, zero })).toEqual(here);
 	});
 });

@@ -1,13 +1,14 @@
-// A few worker threads for whole-session analysis. Jobs go to the least busy worker; a worker that
-// dies is replaced and its jobs fail with a clear error. PADPROOF_ANALYSIS_THREADS=0 analyses on
-// the request thread (for tools that run once and exit).
+// A few worker threads for whole-session work (findings of a finished take, a take's drill score).
+// Jobs go to the least busy worker; a worker that dies is replaced and its jobs fail with a clear
+// error. PADPROOF_ANALYSIS_THREADS=0 works on the request thread (for tools that run once and exit).
 import { availableParallelism } from 'node:os';
 import { Worker } from 'node:worker_threads';
-import type { AnalysisJob, AnalysisReply } from './worker';
+import type { Score } from '$lib/engine';
+import type { AnalysisJob, AnalysisReply, ScoreJob, WorkerJob } from './worker';
 
 interface Slot {
 	worker: Worker;
-	pending: Map<number, { resolve: (n: number) => void; reject: (e: Error) => void }>;
+	pending: Map<number, { resolve: (result: unknown) => void; reject: (e: Error) => void }>;
 }
 
 function threads(): number {
@@ -40,7 +41,7 @@ async function spawn(): Promise<Slot> {
 		slot.pending.delete(reply.id);
 		if (!waiting) return;
 		if ('error' in reply) waiting.reject(new Error(reply.error));
-		else waiting.resolve(reply.findings);
+		else waiting.resolve(reply.result);
 	});
 	const fail = (e: Error) => {
 		slots = slots.filter((s) => s !== slot);
@@ -66,9 +67,9 @@ async function pick(): Promise<Slot> {
 	return spawning;
 }
 
-/** Counts a session's findings in a worker thread (on this thread when threads are turned off). */
-export async function countFindingsOffThread(job: AnalysisJob): Promise<number> {
-	if (threads() === 0) return (await import('./worker')).countFindings(job);
+/** Runs one job in a worker thread (on this thread when threads are turned off). */
+async function offThread(job: WorkerJob): Promise<unknown> {
+	if (threads() === 0) return (await import('./worker')).runJob(job);
 	const slot = await pick();
 	const id = ++nextId;
 	return new Promise((resolve, reject) => {
@@ -77,7 +78,17 @@ export async function countFindingsOffThread(job: AnalysisJob): Promise<number> 
 		slot.worker.postMessage({ id, job });
 	}).finally(() => {
 		if (slot.pending.size === 0) slot.worker.unref();
-	}) as Promise<number>;
+	});
+}
+
+/** Counts a session's findings in a worker thread. */
+export async function countFindingsOffThread(job: AnalysisJob): Promise<number> {
+	return (await offThread({ kind: 'findings', ...job })) as number;
+}
+
+/** Scores a take against a drill in a worker thread (a long drill takes tens of milliseconds). */
+export async function scoreOffThread(job: ScoreJob): Promise<Score> {
+	return (await offThread({ kind: 'score', ...job })) as Score;
 }
 
 /** Starts the workers ahead of the first finish (a worker takes a moment to load the engine). */
