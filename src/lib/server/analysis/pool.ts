@@ -3,11 +3,11 @@
 // the request thread (for tools that run once and exit).
 import { availableParallelism } from 'node:os';
 import { Worker } from 'node:worker_threads';
-import type { AnalysisJob, AnalysisReply } from './worker';
+import type { Analysis, AnalysisJob, AnalysisReply } from './worker';
 
 interface Slot {
 	worker: Worker;
-	pending: Map<number, { resolve: (n: number) => void; reject: (e: Error) => void }>;
+	pending: Map<number, { resolve: (a: Analysis) => void; reject: (e: Error) => void }>;
 }
 
 function threads(): number {
@@ -40,7 +40,7 @@ async function spawn(): Promise<Slot> {
 		slot.pending.delete(reply.id);
 		if (!waiting) return;
 		if ('error' in reply) waiting.reject(new Error(reply.error));
-		else waiting.resolve(reply.findings);
+		else waiting.resolve({ findings: reply.findings, length: reply.length });
 	});
 	const fail = (e: Error) => {
 		slots = slots.filter((s) => s !== slot);
@@ -66,18 +66,23 @@ async function pick(): Promise<Slot> {
 	return spawning;
 }
 
-/** Counts a session's findings in a worker thread (on this thread when threads are turned off). */
-export async function countFindingsOffThread(job: AnalysisJob): Promise<number> {
-	if (threads() === 0) return (await import('./worker')).countFindings(job);
+/** Analyses a session in a worker thread (on this thread when threads are turned off): findings and length. */
+export async function analyseSessionOffThread(job: AnalysisJob): Promise<Analysis> {
+	if (threads() === 0) return (await import('./worker')).analyseSession(job);
 	const slot = await pick();
 	const id = ++nextId;
-	return new Promise((resolve, reject) => {
+	return new Promise<Analysis>((resolve, reject) => {
 		slot.pending.set(id, { resolve, reject });
 		slot.worker.ref(); // keep the process up while a job is out
 		slot.worker.postMessage({ id, job });
 	}).finally(() => {
 		if (slot.pending.size === 0) slot.worker.unref();
-	}) as Promise<number>;
+	});
+}
+
+/** Counts a session's findings in a worker thread (on this thread when threads are turned off). */
+export async function countFindingsOffThread(job: AnalysisJob): Promise<number> {
+	return (await analyseSessionOffThread(job)).findings;
 }
 
 /** Starts the workers ahead of the first finish (a worker takes a moment to load the engine). */

@@ -3,6 +3,7 @@
 // on the main thread it only tells where it is; in a worker started with ANALYSIS_WORKER as its
 // data it answers jobs.
 import { analyze, sessionEvents, sessionReplay, type Mapping, type SessionDocument } from '$lib/engine';
+import { landingTimes, replayLength } from '$lib/replay/model';
 import { isMainThread, parentPort, workerData } from 'node:worker_threads';
 
 export const ANALYSIS_WORKER = 'padproof-analysis';
@@ -12,11 +13,23 @@ export interface AnalysisJob {
 	session: SessionDocument;
 }
 
-export type AnalysisReply = { id: number; findings: number } | { id: number; error: string };
+export interface Analysis {
+	/** How many findings the session has against the mapping version it was played with. */
+	findings: number;
+	/** Its length (ms) as the replay page shows it with that mapping: quantized landings and finding ends included. */
+	length: number;
+}
 
-/** How many findings a session has against the mapping version it was played with. */
-export function countFindings({ mapping, session }: AnalysisJob): number {
-	return analyze(mapping, sessionEvents(session).events, sessionReplay(mapping, session)).length;
+export type AnalysisReply = ({ id: number } & Analysis) | { id: number; error: string };
+
+export function analyseSession({ mapping, session }: AnalysisJob): Analysis {
+	const { events } = sessionEvents(session);
+	const findings = analyze(mapping, events, sessionReplay(mapping, session));
+	return { findings: findings.length, length: replayLength(session, landingTimes(mapping, events, session), findings) };
+}
+
+export function countFindings(job: AnalysisJob): number {
+	return analyseSession(job).findings;
 }
 
 export const workerUrl = import.meta.url;
@@ -26,7 +39,7 @@ if (!isMainThread && workerData === ANALYSIS_WORKER && parentPort) {
 	port.on('message', ({ id, job }: { id: number; job: AnalysisJob }) => {
 		let reply: AnalysisReply;
 		try {
-			reply = { id, findings: countFindings(job) };
+			reply = { id, ...analyseSession(job) };
 		} catch (e) {
 			reply = { id, error: e instanceof Error ? e.message : String(e) };
 		}
