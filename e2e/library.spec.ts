@@ -1,5 +1,8 @@
+import { readFileSync } from 'node:fs';
 import { expect, test } from '@playwright/test';
 import { open, signIn } from './support';
+
+const fixture = (path: string) => readFileSync(new URL(path, import.meta.url), 'utf8');
 
 test.beforeEach(async ({ page }) => signIn(page, 'student'));
 
@@ -38,6 +41,40 @@ test('a bad mapping file gives a readable error and changes nothing', async ({ p
 		.getByTestId('import-mapping')
 		.setInputFiles({ name: 'notes.json', mimeType: 'application/json', buffer: Buffer.from('{ not json') });
 	await expect(page.getByTestId('import-error')).toContainText('notes.json is not a JSON file');
+});
+
+test('a version 1 mapping file opens as version 2, with notes where the upgrade may not sound the same', async ({
+	page
+}) => {
+	await open(page, '/mappings');
+	const v1 = JSON.parse(fixture('../tests/engine/fixtures/v1-demos.json'))['two-deck'];
+	await page.getByTestId('import-mapping').setInputFiles({
+		name: 'old-set.json',
+		mimeType: 'application/json',
+		buffer: Buffer.from(JSON.stringify({ ...v1, name: 'Set from last year' }))
+	});
+	const notice = page.getByTestId('mappings-notice');
+	await expect(notice).toContainText('The mapping was imported.');
+	await expect(notice).toContainText('older mapping document (version 1) and was opened as version 2');
+	await expect(notice).toContainText('with the same sound and findings');
+	await expect(page.getByTestId('upgrade-notes')).toHaveCount(0);
+	const row = page.getByTestId('mapping-row').filter({ hasText: 'Set from last year' });
+	await expect(row).toHaveCount(1);
+	const { mappings } = await (await page.request.get('/api/mappings')).json();
+	const id = mappings.find((m: { name: string }) => m.name === 'Set from last year').id;
+	const saved = await (await page.request.get(`/api/mappings/${id}?download`)).json();
+	expect(saved.version).toBe(2);
+	expect(saved.racks).toHaveLength(4);
+
+	await page.getByTestId('import-mapping').setInputFiles({
+		name: 'focus-rack.json',
+		mimeType: 'application/json',
+		buffer: Buffer.from(fixture('../tests/fixtures/v1-focus-and-slot-2.mapping.json'))
+	});
+	await expect(notice).toContainText('opened as version 2; check the notes below');
+	await expect(page.getByTestId('upgrade-notes').getByRole('listitem')).toHaveText([
+		/^Rack 1 played only its first effect on some pads .* try rack 1's pads before you play live\.$/
+	]);
 });
 
 test('an exported mapping imports back as the user’s own copy', async ({ page }) => {

@@ -157,6 +157,25 @@ test('a link with ?t opens the replay with the cursor and the rig at that moment
 	await expect(page.getByTestId('play')).toHaveAttribute('aria-pressed', 'false');
 });
 
+test('"Link copied" belongs to its moment: it goes when the cursor moves', async ({ page, baseURL }) => {
+	const id = await createSession(page, baseURL!, await mappingId(page, 'Broken stutter row'));
+	await openReplay(page, `/sessions/${id}?t=1.2`);
+	const message = page.getByTestId('moment-link');
+
+	await page.getByTestId('copy-moment').click();
+	// Copied to the clipboard, or (where the browser refuses it) shown to copy by hand: either names the moment.
+	await expect(message).toContainText(/(Link to 1\.200 s copied|Copy this link): \S+\?t=1\.200$/);
+	await page.getByTestId('step-forward').click();
+	await expect(page.getByTestId('cursor-time')).toHaveText('1.500 s');
+	await expect(message).toHaveCount(0);
+
+	await page.getByTestId('copy-moment').click();
+	await expect(message).toContainText('?t=1.500');
+	await page.locator('body').press('ArrowLeft');
+	await expect(page.getByTestId('cursor-time')).toHaveText('1.200 s');
+	await expect(message).toHaveCount(0);
+});
+
 test('the session downloads as JSON and as a Standard MIDI File', async ({ page, baseURL }) => {
 	const id = await createSession(page, baseURL!, await mappingId(page, 'Broken stutter row'));
 	await openReplay(page, `/sessions/${id}`);

@@ -156,6 +156,44 @@ describe('padproof CLI', () => {
 		expect(r.err).toMatch(message);
 	});
 
+	it('reads a valid version 1 mapping as the version 2 document it upgrades to, with nothing on stderr', () => {
+		const v1 = JSON.parse(readFileSync(new URL('../engine/fixtures/v1-demos.json', import.meta.url), 'utf8'));
+		const clean = runCli(['lint', file('old-two-deck.json', v1['two-deck'])]);
+		expect(clean).toEqual({ code: 0, out: 'Two-deck pad set: 0 findings', err: '' });
+		const take = sessionFromEvents(
+			[
+				{ t: 1000, input: 'pad-13', type: 'press' },
+				{ t: 1500, input: 'pad-14', type: 'press' },
+				{ t: 12438, input: 'pad-13', type: 'release' },
+				{ t: 13000, input: 'pad-14', type: 'release' }
+			],
+			124
+		);
+		const old = runCli(['replay', file('old-row.json', v1['broken-row']), file('row-take.json', take), '--json']);
+		expect(old.code).toBe(1);
+		expect(old.err).toBe('');
+		const now = runCli(['replay', 'demo:broken-row', file('row-take.json', take), '--json']);
+		expect(JSON.parse(old.out).findings).toEqual(JSON.parse(now.out).findings);
+		expect(JSON.parse(old.out).audible).toEqual(JSON.parse(now.out).audible);
+	});
+
+	it('prints the upgrade notes of a version 1 mapping on stderr, leaving stdout as it was', () => {
+		const mixed = new URL('../fixtures/v1-focus-and-slot-2.mapping.json', import.meta.url).pathname;
+		const note = /is a version 1 mapping document, read as version 2:\n {2}Rack 1 played only its first effect/;
+		const lint = runCli(['lint', mixed]);
+		expect(lint.out).toMatch(/^Old focus rack: \d+ findings?/);
+		expect(lint.err).toMatch(note);
+		const take = sessionFromEvents([{ t: 0, input: 'pad-2', type: 'press' }], 124);
+		const replayed = runCli(['replay', mixed, file('pad-2.json', take), '--json']);
+		expect(replayed.err).toMatch(note);
+		expect(JSON.parse(replayed.out).mapping).toBe('Old focus rack');
+		expect(runCli(['verify', mixed]).err).toMatch(note);
+		// The notes come before a refusal of another file, so neither is lost.
+		const refused = runCli(['replay', mixed, '/no/such/take.json']);
+		expect(refused.code).toBe(2);
+		expect(refused.err).toMatch(/Rack 1 played[\s\S]*take\.json can't be read/);
+	});
+
 	it('sets the process exit code when run through npm', () => {
 		const r = spawnSync('npx', ['tsx', 'src/lib/cli/padproof.ts', 'lint', 'demo:broken-row'], { encoding: 'utf8' });
 		expect(r.status).toBe(1);

@@ -1,10 +1,12 @@
 import { demoMapping, padId, replay, sessionStart, type SessionEvent } from '$lib/engine';
 import { openDatabase } from '$lib/server/db';
-import { listMappings } from '$lib/server/mappings';
+import { createMapping, listMappings, saveVersion } from '$lib/server/mappings';
+import { buildReplay } from '$lib/replay/model';
 import {
 	appendChunk,
 	createRehearsal,
 	finishRehearsal,
+	getRehearsal,
 	importSession,
 	listRehearsals,
 	sessionDocument
@@ -98,6 +100,27 @@ describe('recording a session in chunks', () => {
 		const [row] = await listRehearsals(t.db, t.kai, 'chord');
 		expect(row).toMatchObject({ status: 'saved', findingCount: 1, eventCount: 4, name: 'Chord test' });
 	});
+
+	it(
+		'stores the length the replay page shows, quantized landings included, with the mapping version played',
+		{ timeout: 60_000 },
+		async () => {
+			// Every pad waits for the next quarter note: at 120 BPM a beat is 500 ms (60000 / BPM, REFERENCES.md).
+			const base = demoMapping('two-deck');
+			const quantized = { ...base, bindings: base.bindings.map((b) => ({ ...b, quantize: '1/4' as const })) };
+			const mappingId = await createMapping(t.db, t.kai, { document: quantized, name: 'On the beat' });
+			const { id } = await createRehearsal(t.db, t.kai, { mappingId, tempo: 120 });
+			await appendChunk(t.db, t.kai, id, { seq: 0, events: [press(1010, 1), release(1100, 1)] });
+			// A later version of the mapping acts at once; the session keeps the version it was played with.
+			await saveVersion(t.db, t.kai, mappingId, base);
+			await finishRehearsal(t.db, t.kai, id, 'Late landing');
+			const [row] = await listRehearsals(t.db, t.kai, 'late landing');
+			const { session, mapping } = await getRehearsal(t.db, t.kai, id);
+			expect(mapping!.bindings[0].quantize).toBe('1/4');
+			expect(buildReplay(mapping, session).length).toBe(1500);
+			expect(row.durationMs).toBe(1500);
+		}
+	);
 });
 
 describe('what a recording refuses', () => {

@@ -70,11 +70,16 @@ function readBytes(file: string): Uint8Array {
 	}
 }
 
+/** What the run has to tell beside its answer (a version 1 mapping's upgrade notes); printed to stderr. */
+let notices: string[] = [];
+
 function loadMapping(arg: string): Mapping {
 	const demo = arg.startsWith('demo:') ? DEMO_MAPPINGS.find((d) => d.slug === arg.slice(5)) : undefined;
 	if (demo) return demo.mapping;
 	const r = parseMappingText(readText(arg));
 	if (!r.ok) throw new Unreadable(arg, r.problems);
+	if (r.upgrade?.notes.length)
+		notices.push(`${arg} is a version 1 mapping document, read as version 2:`, ...r.upgrade.notes.map((n) => `  ${n}`));
 	return r.mapping;
 }
 
@@ -255,6 +260,12 @@ function need(v: string | undefined, what: string): string {
 }
 
 export function runCli(argv: string[]): CliResult {
+	notices = [];
+	const r = run(argv);
+	return notices.length ? { ...r, err: [...notices, ...(r.err ? [r.err] : [])].join('\n') } : r;
+}
+
+function run(argv: string[]): CliResult {
 	try {
 		const a = parseArgs(argv);
 		if (a.help || !a.command) return { code: a.help ? 0 : 2, out: a.help ? HELP : '', err: a.help ? '' : HELP };

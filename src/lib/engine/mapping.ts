@@ -19,14 +19,21 @@ import {
 	type Mapping,
 	type Step
 } from './types';
-import { mappingV1Schema, upgradeMapping, type MappingV1 } from './upgrade';
+import { mappingV1Schema, upgradeMapping, upgradeNotes, type MappingV1 } from './upgrade';
 
 export interface Problem {
 	path: string;
 	message: string;
 }
 export type ParseResult<T> = { ok: true; value: T } | { ok: false; problems: Problem[] };
-export type MappingResult = { ok: true; mapping: Mapping } | { ok: false; problems: Problem[] };
+export type MappingResult =
+	| {
+			ok: true;
+			mapping: Mapping;
+			/** Set when a version 1 document was upgraded: where the upgrade may not keep the exact timeline. */
+			upgrade?: { from: 1; notes: string[] };
+	  }
+	| { ok: false; problems: Problem[] };
 
 const whole = (min: number, max: number) => z.number().int().min(min).max(max);
 const id = z.string().trim().min(1).max(64);
@@ -272,7 +279,9 @@ export function parseMapping(input: unknown): MappingResult {
 			const more = rest.success ? [] : toProblems(rest.error).filter((p) => !p.path.startsWith('racks'));
 			return { ok: false, problems: [...toProblems(old.error), ...more] };
 		}
-		return parseMapping(upgradeMapping(old.data as unknown as MappingV1));
+		const v1 = old.data as unknown as MappingV1;
+		const r = parseMapping(upgradeMapping(v1));
+		return r.ok ? { ...r, upgrade: { from: 1, notes: upgradeNotes(v1) } } : r;
 	}
 	const r = mappingSchema.safeParse(input);
 	if (!r.success) return { ok: false, problems: toProblems(r.error) };
@@ -280,6 +289,13 @@ export function parseMapping(input: unknown): MappingResult {
 	// the schema's loose `value` to StepValue.
 	const mapping = r.data as Mapping;
 	return { ok: true, mapping };
+}
+
+/** What to tell a person about a document that was upgraded on the way in: nothing for a version 2 document. */
+export function upgradeSentences(input: unknown): string[] {
+	if (!input || typeof input !== 'object' || (input as { version?: unknown }).version !== 1) return [];
+	const r = parseMapping(input);
+	return r.ok && r.upgrade ? r.upgrade.notes : [];
 }
 
 /** `JSON.parse` plus `parseMapping`, so a file that isn't JSON gets a problem, not a throw. */

@@ -187,7 +187,10 @@ export function upgradeMapping(m: MappingV1): Mapping {
 	};
 }
 
-/** Racks of a version 1 document whose upgrade may sound or find differently (see the header). */
+/**
+ * Where a version 1 document's upgrade may not sound or find exactly as before (see the header), as
+ * sentences a person reads after the upgrade: empty for documents inside the contract.
+ */
 export function upgradeNotes(m: MappingV1): string[] {
 	const notes: string[] = [];
 	for (let r = 1; r <= RACKS_V1; r++) {
@@ -196,21 +199,23 @@ export function upgradeNotes(m: MappingV1): string[] {
 		const later = steps.some((s) => 'slot' in s.target && s.target.slot > 1);
 		if (focus && later)
 			notes.push(
-				`rack ${r} switched between one effect (focus) and several (chain) in version 1; check its pads after the upgrade`
+				`Rack ${r} played only its first effect on some pads (version 1's focus mode) and its second or third effect on others. ` +
+					`Version 2 has no modes, so these pads may not sound exactly as before: try rack ${r}'s pads before you play live.`
 			);
 	}
 	// A mode step sets its rack up; when nothing else on that rack runs with it, version 2 has no step left to.
 	m.bindings.forEach((b, i) => {
-		const alone = b.steps.some((s) => {
+		const alone = b.steps.find((s) => {
 			if (s.target.kind !== 'rack-mode' || s.value !== 'chain') return false;
 			const rack = s.target.rack;
 			return !b.steps.some(
 				(o) => o !== s && 'rack' in o.target && o.target.rack === rack && o.target.kind !== 'rack-mode' && sameRun(o, s)
 			);
 		});
-		if (alone)
+		if (alone && 'rack' in alone.target)
 			notes.push(
-				`binding ${i + 1} (${b.label ?? b.input}) switches a rack's mode with no other step on it, which version 2 no longer has`
+				`Binding ${i + 1} (${b.label ?? b.input}) only switched rack ${alone.target.rack} back to playing several effects (version 1's chain mode). ` +
+					`Version 2 has no modes, so that step was left out: check the pad still does what you meant.`
 			);
 	});
 	return notes;

@@ -130,22 +130,41 @@ export function counterLanes(mapping: Mapping, timeline: Timeline, start = initi
 	});
 }
 
+/** When each replay event acts: its own time, or the beat-grid line a quantized binding waits for. */
+export function landingTimes(
+	mapping: Mapping | null,
+	events: readonly InputEvent[],
+	session: SessionDocument
+): number[] {
+	const times = events.map((e) => e.t);
+	if (mapping) for (const s of scheduleEvents(mapping, events, session.clock)) times[s.index] = s.at;
+	return times;
+}
+
+/**
+ * A session's length as its replay shows it (ms): the last recorded event, the last quantized
+ * landing, or the end of the last finding, whichever is latest. The sessions list stores the same.
+ */
+export function replayLength(session: SessionDocument, times: readonly number[], findings: readonly Finding[]): number {
+	let last = session.events.at(-1)?.t ?? 0;
+	for (const t of times) if (t > last) last = t;
+	for (const f of findings) last = Math.max(last, f.end ?? f.start);
+	return last;
+}
+
 export function buildReplay(mapping: Mapping | null, session: SessionDocument): ReplayModel {
 	const { events, indexes } = sessionEvents(session);
 	const tempo = session.tempo;
-	const times = events.map((e) => e.t);
+	const times = landingTimes(mapping, events, session);
 	let timeline: Timeline | null = null;
 	let findings: Finding[] = [];
 	let options: ReplayOptions = { clock: session.clock };
 	if (mapping) {
 		options = sessionReplay(mapping, session);
-		for (const s of scheduleEvents(mapping, events, session.clock)) times[s.index] = s.at;
 		timeline = replay(mapping, events, options);
 		findings = analyze(mapping, events, options);
 	}
-	let last = session.events.at(-1)?.t ?? 0;
-	for (const t of times) if (t > last) last = t;
-	for (const f of findings) last = Math.max(last, f.end ?? f.start);
+	const last = replayLength(session, times, findings);
 	return {
 		mapping,
 		tempo,

@@ -14,6 +14,12 @@ export const newMappingBody = z.object({
 	document: z.unknown().meta({ description: 'A mapping document (see MappingDocument).' })
 });
 
+/** Answered with a saved mapping document: empty unless a version 1 document was upgraded and may not sound the same. */
+export const upgradeNotes = z.array(z.string()).meta({
+	description:
+		'Sentences about a version 1 document upgraded to version 2: where the upgrade may not keep the exact sound or findings. Empty for a version 2 document.'
+});
+
 export const mappingVersionBody = z.object({
 	document: z.unknown().meta({ description: 'The changed mapping document, saved as the next version.' }),
 	baseVersion: z

@@ -50,7 +50,7 @@ export const OPERATIONS: Operation[] = [
 		tag: 'Mappings',
 		summary: 'Create a mapping from a mapping document',
 		body: { schema: s.newMappingBody },
-		ok: { status: 201, description: 'Created', schema: z.object({ id: z.string() }) },
+		ok: { status: 201, description: 'Created', schema: z.object({ id: z.string(), notes: s.upgradeNotes }) },
 		refusals: [400, 401, 409, 413]
 	},
 	{
@@ -71,7 +71,11 @@ export const OPERATIONS: Operation[] = [
 		tag: 'Mappings',
 		summary: 'Save a changed document as the next version (owner only)',
 		body: { schema: s.mappingVersionBody },
-		ok: { status: 200, description: 'Saved', schema: z.object({ version: z.number().int() }) },
+		ok: {
+			status: 200,
+			description: 'Saved',
+			schema: z.object({ version: z.number().int(), notes: s.upgradeNotes })
+		},
 		refusals: [400, 401, 403, 404, 413]
 	},
 	{

@@ -17,7 +17,7 @@ import {
 import { and, asc, count, desc, eq, isNull, sql } from 'drizzle-orm';
 import { randomUUID } from 'node:crypto';
 import { z } from 'zod';
-import { countFindingsOffThread } from './analysis/pool';
+import { analyseSessionOffThread } from './analysis/pool';
 import { limits } from './config';
 import { serialWrite, type Database } from './db';
 import { mappingVersion, rehearsal, rehearsalChunk } from './db/schema';
@@ -192,7 +192,8 @@ export async function finishRehearsal(db: Database, userId: string, id: string, 
 	const row = await mine(db, userId, id);
 	if (clock) await serialWrite(() => db.update(rehearsal).set({ clock }).where(eq(rehearsal.id, id)));
 	const { session } = await sessionDocument(db, userId, id);
-	// The events' length without the replay (that runs off this thread below).
+	// The events' length for now; the replay with the pinned mapping (off this thread, below) gives
+	// the length the replay page shows — quantized landings and finding ends included — and it replaces this.
 	const durationMs = buildReplay(null, session).length;
 	await serialWrite(() =>
 		db
@@ -201,9 +202,14 @@ export async function finishRehearsal(db: Database, userId: string, id: string, 
 			.where(eq(rehearsal.id, id))
 	);
 	const mapping = await pinnedMapping(db, row);
-	const findings = mapping ? await countFindingsOffThread({ mapping, session }) : 0;
-	await serialWrite(() => db.update(rehearsal).set({ findingCount: findings }).where(eq(rehearsal.id, id)));
-	return { findings };
+	const analysis = mapping ? await analyseSessionOffThread({ mapping, session }) : { findings: 0, length: durationMs };
+	await serialWrite(() =>
+		db
+			.update(rehearsal)
+			.set({ findingCount: analysis.findings, durationMs: analysis.length })
+			.where(eq(rehearsal.id, id))
+	);
+	return { findings: analysis.findings };
 }
 
 export async function renameRehearsal(db: Database, userId: string, id: string, name: string) {

@@ -4,7 +4,7 @@
 import { availableParallelism } from 'node:os';
 import { Worker } from 'node:worker_threads';
 import type { Score } from '$lib/engine';
-import type { AnalysisJob, AnalysisReply, ScoreJob, WorkerJob } from './worker';
+import type { Analysis, AnalysisJob, AnalysisReply, ScoreJob, WorkerJob } from './worker';
 
 interface Slot {
 	worker: Worker;
@@ -81,9 +81,14 @@ async function offThread(job: WorkerJob): Promise<unknown> {
 	});
 }
 
+/** Analyses a finished session in a worker thread: its findings and its length. */
+export async function analyseSessionOffThread(job: AnalysisJob): Promise<Analysis> {
+	return (await offThread({ kind: 'analysis', ...job })) as Analysis;
+}
+
 /** Counts a session's findings in a worker thread. */
 export async function countFindingsOffThread(job: AnalysisJob): Promise<number> {
-	return (await offThread({ kind: 'findings', ...job })) as number;
+	return (await analyseSessionOffThread(job)).findings;
 }
 
 /** Scores a take against a drill in a worker thread (a long drill takes tens of milliseconds). */

@@ -1,8 +1,8 @@
 // Whole-session work, run in a worker thread so that finishing or scoring a long take does not
-// hold up everyone else's requests: counting a session's findings, and scoring a take against a
-// drill (DESIGN.md §4.8). The pool (./pool.ts) starts this very module as the worker's code: on
-// the main thread it only tells where it is; in a worker started with ANALYSIS_WORKER as its data
-// it answers jobs.
+// hold up everyone else's requests: a finished session's findings and length, and a take's score
+// against a drill (DESIGN.md §4.8). The pool (./pool.ts) starts this very module as the worker's
+// code: on the main thread it only tells where it is; in a worker started with ANALYSIS_WORKER as
+// its data it answers jobs.
 import {
 	analyze,
 	scoreDrill,
@@ -13,6 +13,7 @@ import {
 	type Score,
 	type SessionDocument
 } from '$lib/engine';
+import { landingTimes, replayLength } from '$lib/replay/model';
 import { isMainThread, parentPort, workerData } from 'node:worker_threads';
 
 export const ANALYSIS_WORKER = 'padproof-analysis';
@@ -20,6 +21,13 @@ export const ANALYSIS_WORKER = 'padproof-analysis';
 export interface AnalysisJob {
 	mapping: Mapping;
 	session: SessionDocument;
+}
+
+export interface Analysis {
+	/** How many findings the session has against the mapping version it was played with. */
+	findings: number;
+	/** Its length (ms) as the replay page shows it with that mapping: quantized landings and finding ends included. */
+	length: number;
 }
 
 export interface ScoreJob {
@@ -30,13 +38,18 @@ export interface ScoreJob {
 	zero: number;
 }
 
-export type WorkerJob = ({ kind: 'findings' } & AnalysisJob) | ({ kind: 'score' } & ScoreJob);
+export type WorkerJob = ({ kind: 'analysis' } & AnalysisJob) | ({ kind: 'score' } & ScoreJob);
 
 export type AnalysisReply = { id: number; result: unknown } | { id: number; error: string };
 
-/** How many findings a session has against the mapping version it was played with. */
-export function countFindings({ mapping, session }: AnalysisJob): number {
-	return analyze(mapping, sessionEvents(session).events, sessionReplay(mapping, session)).length;
+export function analyseSession({ mapping, session }: AnalysisJob): Analysis {
+	const { events } = sessionEvents(session);
+	const findings = analyze(mapping, events, sessionReplay(mapping, session));
+	return { findings: findings.length, length: replayLength(session, landingTimes(mapping, events, session), findings) };
+}
+
+export function countFindings(job: AnalysisJob): number {
+	return analyseSession(job).findings;
 }
 
 /** A take's score against a drill. */
@@ -44,8 +57,8 @@ export function scoreJob({ drill, mapping, session, zero }: ScoreJob): Score {
 	return scoreDrill(drill, mapping, session, { zero });
 }
 
-export function runJob(job: WorkerJob): number | Score {
-	return job.kind === 'score' ? scoreJob(job) : countFindings(job);
+export function runJob(job: WorkerJob): Analysis | Score {
+	return job.kind === 'score' ? scoreJob(job) : analyseSession(job);
 }
 
 export const workerUrl = import.meta.url;

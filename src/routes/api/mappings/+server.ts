@@ -1,4 +1,5 @@
 import { documentKind } from '$lib/documents';
+import { upgradeSentences } from '$lib/engine/mapping';
 import { db } from '$lib/server/db';
 import { newMappingBody } from '$lib/server/api-schemas';
 import { readJson, Refusal, refusalResponse, signedIn } from '$lib/server/http';
@@ -22,7 +23,8 @@ export const POST: RequestHandler = async ({ locals, request }) => {
 		if (kind === 'session' || kind === 'drill')
 			throw new Refusal(400, `This is a ${kind} file, not a mapping. Nothing was saved.`);
 		const id = await createMapping(db, user.id, body);
-		return json({ id }, { status: 201 });
+		// A version 1 document is upgraded on the way in; `notes` says where it may not sound exactly as before.
+		return json({ id, notes: upgradeSentences(body.document) }, { status: 201 });
 	} catch (e) {
 		return refusalResponse(e);
 	}

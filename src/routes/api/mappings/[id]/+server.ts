@@ -1,3 +1,4 @@
+import { upgradeSentences } from '$lib/engine/mapping';
 import { db } from '$lib/server/db';
 import { mappingRenameBody, mappingVersionBody, mappingVisibilityBody } from '$lib/server/api-schemas';
 import { readJson, refusalResponse, signedIn } from '$lib/server/http';
@@ -33,7 +34,8 @@ export const PUT: RequestHandler = async ({ locals, params, request }) => {
 	try {
 		const user = signedIn(locals);
 		const body = await readJson(request, mappingVersionBody, 2 << 20);
-		return json({ version: await saveVersion(db, user.id, params.id, body.document, body.baseVersion) });
+		const version = await saveVersion(db, user.id, params.id, body.document, body.baseVersion);
+		return json({ version, notes: upgradeSentences(body.document) });
 	} catch (e) {
 		if (e instanceof VersionConflict)
 			return json({ error: e.message, problems: e.problems, newest: e.newest }, { status: 409 });
