@@ -234,11 +234,23 @@ describe('a take handed in for an assignment', { timeout: 30_000 }, () => {
 		expect((await listTrash(db, kai.id)).map((i) => i.id)).toEqual([takeId]);
 	});
 
-	it('trashed before this rule, is kept by the purge with its submission', async () => {
-		const { tomas, takeId, submissionId } = await scene();
+	it('trashed before this rule, is taken out of the trash by the purge, with its submission', async () => {
+		const { tomas, kai, takeId, submissionId } = await scene();
 		await db.update(rehearsal).set({ deletedAt: new Date() }).where(eq(rehearsal.id, takeId));
 		expect(await purgeTrash(db, later(31))).toMatchObject({ sessions: 0 });
 		expect((await submissionFor(db, tomas.id, submissionId)).id).toBe(submissionId);
+		expect((await getRehearsal(db, kai.id, takeId)).row.deletedAt).toBeNull();
+	});
+
+	it('cannot be handed in from the trash', async () => {
+		const { kai, assignmentId, mappingId, drillId } = await scene();
+		const other = await take(kai.id, mappingId, drillId);
+		await deleteRehearsal(db, kai.id, other);
+		const refusal = await submit(db, kai, assignmentId, other, null, ORIGIN).catch((e) => e);
+		expect(refusal).toMatchObject({
+			status: 400,
+			message: 'That take is in the trash. Restore it from the trash to hand it in.'
+		});
 	});
 });
 

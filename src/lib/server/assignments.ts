@@ -173,12 +173,13 @@ export async function submit(
 	const a = await assignmentFor(db, student.id, assignmentId);
 	if (a.role !== 'student') throw new Refusal(403, 'Only students of the class hand in takes.');
 	const [take] = await db
-		.select({ take: drillTake, owner: rehearsal.ownerId })
+		.select({ take: drillTake, owner: rehearsal.ownerId, deletedAt: rehearsal.deletedAt })
 		.from(drillTake)
 		.innerJoin(rehearsal, eq(rehearsal.id, drillTake.rehearsalId))
 		.where(eq(drillTake.rehearsalId, rehearsalId));
 	if (!take || take.owner !== student.id || take.take.drillId !== a.drillId)
 		throw new Refusal(400, 'Choose one of your own takes of this drill.');
+	if (take.deletedAt) throw new Refusal(400, 'That take is in the trash. Restore it from the trash to hand it in.');
 	const [existing] = await db
 		.select()
 		.from(submission)

@@ -2,7 +2,7 @@
 // are purged. A mapping that any session still replays against, or any drill is played on, is
 // never removed: it leaves the trash but its versions stay, so those sessions keep their findings
 // and the drills keep working.
-import { and, desc, eq, inArray, isNotNull, lt, notExists, or } from 'drizzle-orm';
+import { and, desc, eq, exists, inArray, isNotNull, lt, notExists, or } from 'drizzle-orm';
 import { removeMappings, removeSessions } from './cleanup';
 import { writeTransaction, type Database } from './db';
 import { drill, mapping, mappingVersion, rehearsal, submission } from './db/schema';
@@ -83,7 +83,7 @@ export async function restoreFromTrash(
 /**
  * Removes what has waited longer than 30 days, in one write transaction that deletes every
  * dependent row itself (server/cleanup.ts). Sessions go with their events; a session handed in
- * for an assignment stays (it cannot be trashed since; one trashed before waits for its student).
+ * for an assignment stays: one trashed before that was refused is taken out of the trash.
  * A mapping goes only when no session and no drill refers to it or to one of its versions; one
  * that is still referred to leaves the trash but keeps its versions. The audio files of what was
  * removed are returned for the caller to remove.
@@ -112,6 +112,16 @@ export async function purgeTrash(
 		)
 	)!;
 	return writeTransaction(db, async (tx) => {
+		// A take handed in and trashed before that was refused comes back: the class keeps it.
+		await tx
+			.update(rehearsal)
+			.set({ deletedAt: null })
+			.where(
+				and(
+					isNotNull(rehearsal.deletedAt),
+					exists(tx.select({ id: submission.id }).from(submission).where(eq(submission.rehearsalId, rehearsal.id)))
+				)
+			);
 		const sessions = await removeSessions(
 			tx,
 			and(

@@ -70,6 +70,8 @@ export async function writeTransaction<T>(db: Database, work: (tx: Tx) => Promis
  * transaction holds a connection, `ROLLBACK` in the same script ends it (a safety level cannot be
  * changed inside a transaction) and the pragmas follow on that connection. A connection the pool
  * opens later (after dropping a broken one) keeps SQLite's default, FULL: only slower, never less safe.
+ * Its foreign-key setting is the library's default, and a remote libSQL database gets no pragma
+ * at all: no delete depends on foreign keys or their cascades (server/cleanup.ts).
  */
 async function setUpConnections(client: Client) {
 	const sync = databaseSync();
