@@ -677,6 +677,15 @@ const ROUTES: Row[] = [
 		expect: { ...classOnly(303, 303), teacher: 403 }
 	},
 	{
+		name: 'delete an assignment (form)',
+		method: 'POST',
+		path: (_f, fresh) => `/assignments/${fresh}?/delete`,
+		body: () => ({ form: { graded: '0' } }),
+		fresh: async (f) => newAssignment(as.teacher, f.classId, f.drill),
+		// The class teacher goes back to the class; its student may not; to anyone else it does not exist.
+		expect: { ...all(404), anonymous: 303, student: 403, teacher: 303 }
+	},
+	{
 		name: 'submission page',
 		method: 'GET',
 		path: (f) => `/submissions/${f.submission}`,

@@ -68,6 +68,7 @@ test('teacher, student and gradebook: a drill from class creation to a graded, e
 	await shot(teacher, 'drill-editor');
 	await teacher.getByRole('button', { name: 'Create drill' }).click();
 	await expect(teacher.getByRole('status')).toContainText('Drill saved.');
+	const drillUrl = new URL(teacher.url()).pathname;
 	const exported = await teacher.request.get(
 		`${new URL(teacher.url()).pathname}`.replace('/drills/', '/api/drills/') + '?download'
 	);
@@ -122,6 +123,7 @@ test('teacher, student and gradebook: a drill from class creation to a graded, e
 		.click();
 	await expect(page.getByTestId('drill-brief')).toContainText('4 presses in 1 bar at 100 BPM');
 	await expect(page.getByTestId('drill-brief')).toContainText('within ±40 ms');
+	const assignmentUrl = new URL(page.url()).pathname;
 	await page.getByTestId('practise-link').click();
 	const panel = page.getByTestId('drill-panel');
 	await expect(panel).toBeVisible({ timeout: 60_000 });
@@ -212,6 +214,26 @@ test('teacher, student and gradebook: a drill from class creation to a graded, e
 			comment: 'Right on the beat. Next: hold each press a full beat.'
 		})
 	]);
+
+	// What the class keeps is not deleted under it: the handed-in take stays with the student, the
+	// drill is refused while a hand-in of it exists, and deleting the assignment names the graded one.
+	await open(page, '/sessions');
+	const takeRow = page.getByTestId('session-row').filter({ has: page.locator(`a[href="/sessions/${sessionId}"]`) });
+	await expect(takeRow).toContainText('handed in');
+	await takeRow.getByRole('button', { name: /^Delete/ }).click();
+	await expect(page.getByTestId('session-problem')).toHaveText(
+		'This take was handed in for “Steady pad one”; it stays while the class keeps it.'
+	);
+	await open(teacher, drillUrl);
+	await teacher.getByTestId('delete-drill').click();
+	await expect(teacher.getByTestId('delete-problem')).toContainText('Students handed in 1 take for “Steady pad one”');
+	await open(teacher, assignmentUrl);
+	await teacher.getByTestId('delete-assignment').click();
+	const confirm = teacher.getByRole('dialog');
+	await expect(confirm).toContainText('One of them is graded: its grade and comment go too.');
+	await expect(confirm.getByRole('button', { name: 'Delete with 1 graded' })).toBeVisible();
+	await confirm.getByRole('button', { name: 'Cancel' }).click();
+	await expect(confirm).toBeHidden();
 	await midiContext.close();
 
 	// People outside the class get 404 from its pages, API routes and downloads.

@@ -1,8 +1,10 @@
-// A session's audio in either store: kept under a fresh name, replaced atomically, removed with
-// the session, never left behind by a refused or raced upload.
+// A session's audio in either store: kept under a fresh name, replaced atomically, removed when
+// the session is purged from the trash, never left behind by a refused or raced upload.
 import { listMappings } from '$lib/server/mappings';
-import { createRehearsal } from '$lib/server/rehearsals';
-import { deleteSession, openSessionAudio, storeSessionAudio } from '$lib/server/session-audio';
+import { removeFiles } from '$lib/server/cleanup';
+import { createRehearsal, deleteRehearsal } from '$lib/server/rehearsals';
+import { openSessionAudio, storeSessionAudio } from '$lib/server/session-audio';
+import { purgeTrash } from '$lib/server/trash';
 import { diskStore, s3Store, type UploadStore } from '$lib/server/storage';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
@@ -54,7 +56,12 @@ describe.each(['disk', 's3'])('session audio in the %s store', (kind) => {
 		expect(second[0]).not.toBe(first[0]);
 		expect((await openSessionAudio(t.db, t.kai, id, store))?.size).toBe(8000);
 
-		await deleteSession(t.db, t.kai, id, store);
+		// Deleted, the session keeps its file in the trash; the purge after 30 days removes it.
+		await deleteRehearsal(t.db, t.kai, id);
+		expect((await store.list()).filter((n) => n.startsWith(id))).toEqual(second);
+		const purged = await purgeTrash(t.db, new Date(Date.now() + 31 * 24 * 3600_000));
+		expect(purged.audioFiles).toEqual(second);
+		await removeFiles(purged.audioFiles, store);
 		expect((await store.list()).filter((n) => n.startsWith(id))).toEqual([]);
 	});
 

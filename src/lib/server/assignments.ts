@@ -4,11 +4,12 @@
 // submission to a class they teach. Everyone else is told "not found".
 import type { ScoreSummary } from '$lib/engine';
 import type { GradebookRow } from '$lib/teaching';
-import { and, asc, desc, eq, inArray } from 'drizzle-orm';
+import { and, asc, count, desc, eq, inArray } from 'drizzle-orm';
 import { randomUUID } from 'node:crypto';
 import { z } from 'zod';
 import { classFor, shareMapping, taughtClass, type Person } from './classes';
-import type { Database } from './db';
+import { removeAssignments, removeFiles } from './cleanup';
+import { writeTransaction, type Database } from './db';
 import { assignment, classMember, drill, drillTake, rehearsal, schoolClass, submission, user } from './db/schema';
 import { ownDrill } from './drills';
 import { Refusal } from './http';
@@ -59,10 +60,35 @@ export async function createAssignment(
 	return id;
 }
 
-export async function deleteAssignment(db: Database, teacherId: string, id: string) {
+/** How many takes were handed in for an assignment, and how many of them are graded. */
+export async function handInsOf(db: Pick<Database, 'select'>, id: string) {
+	const [{ handIns, graded }] = await db
+		.select({ handIns: count(), graded: count(submission.gradedAt) })
+		.from(submission)
+		.where(eq(submission.assignmentId, id));
+	return { handIns, graded };
+}
+
+/**
+ * Deletes an assignment with the submissions handed in for it and their audio files (the students'
+ * sessions stay). Graded work goes only when the teacher confirmed that many graded hand-ins
+ * (`confirmedGraded`, the number the confirmation named): a grade given since is not lost unseen.
+ */
+export async function deleteAssignment(db: Database, teacherId: string, id: string, confirmedGraded = 0) {
 	const a = await assignmentFor(db, teacherId, id);
 	if (a.role !== 'teacher') throw new Refusal(403, 'Only the class teacher can do this.');
-	await db.delete(assignment).where(eq(assignment.id, id));
+	const files = await writeTransaction(db, async (tx) => {
+		const { graded } = await handInsOf(tx, id);
+		if (graded > confirmedGraded)
+			throw new Refusal(
+				409,
+				`${graded} graded hand-in${graded === 1 ? '' : 's'} of “${a.drill.name}” would go with this assignment, ` +
+					`with ${graded === 1 ? 'its grade and comment' : 'their grades and comments'}. Confirm deleting ${graded === 1 ? 'it' : 'them'} to go on.`
+			);
+		return removeAssignments(tx, eq(assignment.id, id));
+	});
+	await removeFiles(files);
+	return { classId: a.classId };
 }
 
 export async function classAssignments(db: Database, classId: string) {
@@ -147,12 +173,13 @@ export async function submit(
 	const a = await assignmentFor(db, student.id, assignmentId);
 	if (a.role !== 'student') throw new Refusal(403, 'Only students of the class hand in takes.');
 	const [take] = await db
-		.select({ take: drillTake, owner: rehearsal.ownerId })
+		.select({ take: drillTake, owner: rehearsal.ownerId, deletedAt: rehearsal.deletedAt })
 		.from(drillTake)
 		.innerJoin(rehearsal, eq(rehearsal.id, drillTake.rehearsalId))
 		.where(eq(drillTake.rehearsalId, rehearsalId));
 	if (!take || take.owner !== student.id || take.take.drillId !== a.drillId)
 		throw new Refusal(400, 'Choose one of your own takes of this drill.');
+	if (take.deletedAt) throw new Refusal(400, 'That take is in the trash. Restore it from the trash to hand it in.');
 	const [existing] = await db
 		.select()
 		.from(submission)

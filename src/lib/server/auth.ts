@@ -52,7 +52,8 @@ export const auth = betterAuth({
 		deleteUser: {
 			enabled: true,
 			beforeDelete: async (user) => {
-				const problem = await lastAdminProblem(db, user.id);
+				// Checked and claimed in one write transaction: see lastAdminProblem.
+				const problem = await lastAdminProblem(db, user.id, { claim: true });
 				if (problem) throw APIError.from('BAD_REQUEST', { message: problem, code: 'LAST_ADMIN' });
 			}
 		}

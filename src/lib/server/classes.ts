@@ -5,7 +5,8 @@
 import { and, count, desc, eq, inArray, isNull, max, sql } from 'drizzle-orm';
 import { randomBytes, randomUUID } from 'node:crypto';
 import { z } from 'zod';
-import type { Database } from './db';
+import { removeClasses, removeFiles } from './cleanup';
+import { writeTransaction, type Database } from './db';
 import {
 	assignment,
 	classInvite,
@@ -113,9 +114,10 @@ export async function renameClass(db: Database, teacherId: string, classId: stri
 	await db.update(schoolClass).set({ name }).where(eq(schoolClass.id, classId));
 }
 
+/** Deletes a class with its members, invitations, shares and assignments (with their submissions and audio). */
 export async function deleteClass(db: Database, teacherId: string, classId: string) {
 	await taughtClass(db, teacherId, classId);
-	await db.delete(schoolClass).where(eq(schoolClass.id, classId));
+	await removeFiles(await writeTransaction(db, (tx) => removeClasses(tx, eq(schoolClass.id, classId))));
 }
 
 /** The classes a teacher teaches, with how many students and assignments each has. */

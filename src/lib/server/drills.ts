@@ -12,11 +12,12 @@ import {
 	type ScoreSummary,
 	type SessionDocument
 } from '$lib/engine';
-import { and, desc, eq, inArray } from 'drizzle-orm';
+import { and, count, desc, eq, inArray } from 'drizzle-orm';
 import { randomUUID } from 'node:crypto';
 import { z } from 'zod';
-import type { Database } from './db';
-import { assignment, classMember, drill, drillTake, mappingVersion, schoolClass } from './db/schema';
+import { removeDrills, removeFiles } from './cleanup';
+import { writeTransaction, type Database } from './db';
+import { assignment, classMember, drill, drillTake, mappingVersion, schoolClass, submission } from './db/schema';
 import { Refusal } from './http';
 import { getMapping, storedDocument } from './mappings';
 import { sessionDocument } from './rehearsals';
@@ -72,9 +73,42 @@ export async function updateDrill(db: Database, ownerId: string, id: string, inp
 		.where(eq(drill.id, id));
 }
 
+/** How much hangs on a drill: its assignments, the takes handed in for them, and how many of those are graded. */
+export async function drillUse(db: Pick<Database, 'select'>, id: string) {
+	const [{ assignments }] = await db
+		.select({ assignments: count() })
+		.from(assignment)
+		.where(eq(assignment.drillId, id));
+	const [{ handIns, graded }] = await db
+		.select({ handIns: count(), graded: count(submission.gradedAt) })
+		.from(submission)
+		.innerJoin(assignment, eq(assignment.id, submission.assignmentId))
+		.where(eq(assignment.drillId, id));
+	return { assignments, handIns, graded };
+}
+
+const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? one : many}`;
+
+/**
+ * Deletes a drill with its assignments and the scored takes of it (the sessions stay). Refused
+ * while students' hand-ins of it exist: those go only with their assignment, one by one, so a
+ * teacher never loses a class's work through the drill.
+ */
 export async function deleteDrill(db: Database, ownerId: string, id: string) {
 	await ownDrill(db, ownerId, id);
-	await db.delete(drill).where(eq(drill.id, id));
+	const files = await writeTransaction(db, async (tx) => {
+		const [row] = await tx.select({ name: drill.name }).from(drill).where(eq(drill.id, id));
+		if (!row) throw new Refusal(404, 'That drill does not exist, or it is not yours.');
+		const use = await drillUse(tx, id);
+		if (use.handIns)
+			throw new Refusal(
+				409,
+				`Students handed in ${plural(use.handIns, 'take')} for “${row.name}”. ` +
+					`Remove its ${plural(use.assignments, 'assignment')} first (on each assignment’s page); then the drill can go.`
+			);
+		return removeDrills(tx, eq(drill.id, id));
+	});
+	await removeFiles(files);
 }
 
 export async function ownDrill(db: Database, ownerId: string, id: string): Promise<DrillRow> {

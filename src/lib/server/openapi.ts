@@ -147,9 +147,11 @@ export const OPERATIONS: Operation[] = [
 		method: 'delete',
 		path: '/api/sessions/{id}',
 		tag: 'Sessions',
-		summary: 'Delete a session and its audio',
-		ok: { status: 204, description: 'Deleted' },
-		refusals: [401, 404]
+		summary: 'Move a session to the trash (purged with its audio after 30 days)',
+		description:
+			'A session with no events and no audio is removed at once. A take handed in for an assignment is refused with 409 while the assignment keeps it.',
+		ok: { status: 204, description: 'In the trash, or removed' },
+		refusals: [401, 404, 409]
 	},
 	{
 		method: 'post',

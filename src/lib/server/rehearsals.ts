@@ -14,13 +14,14 @@ import {
 	type SessionDocument,
 	type SessionEvent
 } from '$lib/engine';
-import { and, asc, count, desc, eq, isNull, sql } from 'drizzle-orm';
+import { and, asc, count, desc, eq, inArray, isNull, sql } from 'drizzle-orm';
 import { randomUUID } from 'node:crypto';
 import { z } from 'zod';
 import { analyseSessionOffThread } from './analysis/pool';
 import { limits } from './config';
-import { serialWrite, type Database } from './db';
-import { mappingVersion, rehearsal, rehearsalChunk } from './db/schema';
+import { removeSessions } from './cleanup';
+import { serialWrite, writeTransaction, type Database } from './db';
+import { assignment, drill, mappingVersion, rehearsal, rehearsalChunk, submission } from './db/schema';
 import { Refusal } from './http';
 import { getMapping, storedDocument } from './mappings';
 import { CHUNK_MAX_EVENTS } from '$lib/recorder/limits';
@@ -240,22 +241,41 @@ export async function getRehearsal(db: Database, userId: string, id: string) {
 	return { row, session, mapping: await pinnedMapping(db, row) };
 }
 
+/** The sessions among `ids` that are handed in for an assignment, with the drill each was handed in for. */
+export async function handedIn(db: Pick<Database, 'select'>, ids: string[]): Promise<Map<string, string>> {
+	if (!ids.length) return new Map();
+	const rows = await db
+		.select({ id: submission.rehearsalId, drill: drill.name })
+		.from(submission)
+		.innerJoin(assignment, eq(assignment.id, submission.assignmentId))
+		.innerJoin(drill, eq(drill.id, assignment.drillId))
+		.where(inArray(submission.rehearsalId, ids));
+	return new Map(rows.map((r) => [r.id, r.drill]));
+}
+
+/** Why a session handed in for an assignment cannot be deleted by its student. */
+export const handedInProblem = (drillName: string) =>
+	`This take was handed in for “${drillName}”; it stays while the class keeps it.`;
+
 /**
  * Moves a session to the trash; its events and audio stay until the trash is purged. A session
  * with no events and no audio (an empty take thrown away) is removed at once: nothing to restore.
+ * A take handed in for an assignment is refused (409): the teacher reviews it. Whether to remove
+ * or to trash is decided on the row as it stands inside the write transaction, so an upload
+ * attached meanwhile is trashed with the session, never orphaned.
  */
 export async function deleteRehearsal(db: Database, userId: string, id: string) {
-	const row = await mine(db, userId, id);
-	if (row.eventCount === 0 && !row.audioFile)
-		await serialWrite(() =>
-			db.transaction(async (tx) => {
-				// Explicitly: a libSQL server or a pooled connection may not enforce foreign keys.
-				await tx.delete(rehearsalChunk).where(eq(rehearsalChunk.rehearsalId, id));
-				await tx.delete(rehearsal).where(eq(rehearsal.id, id));
-			})
-		);
-	else await db.update(rehearsal).set({ deletedAt: new Date() }).where(eq(rehearsal.id, id));
-	return row;
+	await mine(db, userId, id);
+	return writeTransaction(db, async (tx) => {
+		const [row] = await tx.select().from(rehearsal).where(eq(rehearsal.id, id));
+		if (!row || row.ownerId !== userId || row.deletedAt)
+			throw new Refusal(404, 'That session does not exist, or it belongs to someone else.');
+		const drillName = (await handedIn(tx, [id])).get(id);
+		if (drillName !== undefined) throw new Refusal(409, handedInProblem(drillName));
+		if (row.eventCount === 0 && !row.audioFile) await removeSessions(tx, eq(rehearsal.id, id));
+		else await tx.update(rehearsal).set({ deletedAt: new Date() }).where(eq(rehearsal.id, id));
+		return row;
+	});
 }
 
 /** Saves an imported session document (already parsed) as a finished session of a mapping. */

@@ -1,10 +1,11 @@
 // A session's audio capture: received as a stream under the size limit with its kind read from
 // its bytes, stored under a fresh unique name, then attached to the session atomically. Every
-// failure on the way removes what was written; a replaced or orphaned file is removed.
+// failure on the way removes what was written; a replaced or orphaned file is removed. A deleted
+// session keeps its file in the trash; the purge removes it (trash-purge.ts).
 import { randomUUID } from 'node:crypto';
 import { rm } from 'node:fs/promises';
 import type { Database } from './db';
-import { attachAudio, deleteRehearsal, getRehearsalRow } from './rehearsals';
+import { attachAudio, getRehearsalRow } from './rehearsals';
 import { describeContent, sniffAudio } from './sniff';
 import { uploadStore, type UploadStore } from './storage';
 import { receiveUpload } from './upload';
@@ -49,10 +50,4 @@ export async function openSessionAudio(db: Database, userId: string, id: string,
 	const row = await getRehearsalRow(db, userId, id);
 	const file = row.audioFile ? await store.get(row.audioFile) : null;
 	return file ? { ...file, type: row.audioType ?? 'application/octet-stream' } : null;
-}
-
-/** Deletes a session with its chunks, then the audio file it held when deleted. */
-export async function deleteSession(db: Database, userId: string, id: string, store = uploadStore()) {
-	const row = await deleteRehearsal(db, userId, id);
-	if (row.audioFile) await store.remove(row.audioFile);
 }

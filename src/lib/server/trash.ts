@@ -1,9 +1,11 @@
 // The trash: deleted mappings and sessions keep their rows with `deletedAt` set for 30 days, then
-// are purged. A mapping that any session still replays against is never removed: it leaves the
-// trash but its versions stay, so those sessions keep their findings.
-import { and, desc, eq, inArray, isNotNull, lt, notExists } from 'drizzle-orm';
-import type { Database } from './db';
-import { mapping, rehearsal, rehearsalChunk } from './db/schema';
+// are purged. A mapping that any session still replays against, or any drill is played on, is
+// never removed: it leaves the trash but its versions stay, so those sessions keep their findings
+// and the drills keep working.
+import { and, desc, eq, exists, inArray, isNotNull, lt, notExists, or } from 'drizzle-orm';
+import { removeMappings, removeSessions } from './cleanup';
+import { writeTransaction, type Database } from './db';
+import { drill, mapping, mappingVersion, rehearsal, submission } from './db/schema';
 import { Refusal } from './http';
 
 export const TRASH_DAYS = 30;
@@ -79,37 +81,59 @@ export async function restoreFromTrash(
 }
 
 /**
- * Removes what has waited longer than 30 days. Sessions go with their events; their audio files
- * are returned for the caller to remove. A mapping goes only when no session refers to it.
+ * Removes what has waited longer than 30 days, in one write transaction that deletes every
+ * dependent row itself (server/cleanup.ts). Sessions go with their events; a session handed in
+ * for an assignment stays: one trashed before that was refused is taken out of the trash.
+ * A mapping goes only when no session and no drill refers to it or to one of its versions; one
+ * that is still referred to leaves the trash but keeps its versions. The audio files of what was
+ * removed are returned for the caller to remove.
  */
 export async function purgeTrash(
 	db: Database,
 	now = new Date()
 ): Promise<{ sessions: number; mappings: number; audioFiles: string[] }> {
 	const before = cutoff(now);
-	const expired = await db
-		.select({ id: rehearsal.id, audioFile: rehearsal.audioFile })
-		.from(rehearsal)
-		.where(lt(rehearsal.deletedAt, before));
-	const ids = expired.map((r) => r.id);
-	// Chunks first and explicitly: a libSQL server or a pooled connection may not enforce foreign keys.
-	if (ids.length)
-		await db.transaction(async (tx) => {
-			await tx.delete(rehearsalChunk).where(inArray(rehearsalChunk.rehearsalId, ids));
-			await tx.delete(rehearsal).where(inArray(rehearsal.id, ids));
-		});
-	const gone = await db
-		.delete(mapping)
-		.where(
-			and(
-				lt(mapping.deletedAt, before),
-				notExists(db.select({ id: rehearsal.id }).from(rehearsal).where(eq(rehearsal.mappingId, mapping.id)))
-			)
+	const versions = db
+		.select({ id: mappingVersion.id })
+		.from(mappingVersion)
+		.where(eq(mappingVersion.mappingId, mapping.id));
+	const unused = and(
+		notExists(
+			db
+				.select({ id: rehearsal.id })
+				.from(rehearsal)
+				.where(or(eq(rehearsal.mappingId, mapping.id), inArray(rehearsal.mappingVersionId, versions)))
+		),
+		notExists(
+			db
+				.select({ id: drill.id })
+				.from(drill)
+				.where(or(eq(drill.mappingId, mapping.id), inArray(drill.mappingVersionId, versions)))
 		)
-		.returning({ id: mapping.id });
-	return {
-		sessions: expired.length,
-		mappings: gone.length,
-		audioFiles: expired.flatMap((r) => (r.audioFile ? [r.audioFile] : []))
-	};
+	)!;
+	return writeTransaction(db, async (tx) => {
+		// A take handed in and trashed before that was refused comes back: the class keeps it.
+		await tx
+			.update(rehearsal)
+			.set({ deletedAt: null })
+			.where(
+				and(
+					isNotNull(rehearsal.deletedAt),
+					exists(tx.select({ id: submission.id }).from(submission).where(eq(submission.rehearsalId, rehearsal.id)))
+				)
+			);
+		const sessions = await removeSessions(
+			tx,
+			and(
+				lt(rehearsal.deletedAt, before),
+				notExists(tx.select({ id: submission.id }).from(submission).where(eq(submission.rehearsalId, rehearsal.id)))
+			)!
+		);
+		const mappings = await removeMappings(tx, and(lt(mapping.deletedAt, before), unused)!);
+		return {
+			sessions: sessions.count,
+			mappings: mappings.count,
+			audioFiles: [...sessions.files, ...mappings.files]
+		};
+	});
 }

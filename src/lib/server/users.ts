@@ -1,8 +1,22 @@
-import { and, asc, count, eq, inArray, ne, or, sql, type Column } from 'drizzle-orm';
-import { serialWrite, type Database } from './db';
-import { apikey, mapping, mappingVersion, rehearsal, rehearsalChunk, user } from './db/schema';
+import { and, asc, count, eq, exists, inArray, isNull, ne, or, sql, type Column } from 'drizzle-orm';
+import { removeClasses, removeDrills, removeFiles, removeMappings, removeSessions, removeSubmissions } from './cleanup';
+import { writeTransaction, type Database, type Tx } from './db';
+import {
+	apikey,
+	classInvite,
+	classMapping,
+	classMember,
+	controllerLayout,
+	drill,
+	drillTake,
+	mapping,
+	mappingVersion,
+	rehearsal,
+	schoolClass,
+	submission,
+	user
+} from './db/schema';
 import type { Role } from './roles';
-import { uploadStore } from './storage';
 
 export interface UserRow {
 	id: string;
@@ -45,27 +59,6 @@ export class RoleChangeError extends Error {}
 const LAST_ADMIN = 'The school needs at least one admin: make someone else admin first.';
 
 type Reader = Pick<Database, 'select'>;
-type Tx = Parameters<Parameters<Database['transaction']>[0]>[0];
-
-const busy = (e: unknown) => /SQLITE_BUSY|database is locked/i.test(String((e as Error)?.message ?? e));
-
-/**
- * A write transaction that takes the write lock first (`begin immediate`), so what it reads cannot
- * change before it writes. Within this process writes queue (`serialWrite`); another process
- * holding the lock makes it wait and try again, for up to 5 s (a transaction's own connection has
- * no busy timeout).
- */
-async function writeTransaction<T>(db: Database, work: (tx: Tx) => Promise<T>): Promise<T> {
-	const deadline = Date.now() + 5000;
-	for (;;) {
-		try {
-			return await serialWrite(() => db.transaction(work, { behavior: 'immediate' }));
-		} catch (e) {
-			if (!busy(e) || Date.now() > deadline) throw e;
-			await new Promise((r) => setTimeout(r, 10 + Math.random() * 40));
-		}
-	}
-}
 
 /** Admins other than `userId` who can still sign in. */
 async function otherActiveAdmins(db: Reader, userId: string): Promise<number> {
@@ -100,50 +93,111 @@ export async function changeRole(db: Database, userId: string, role: Role): Prom
 	});
 }
 
-/** Why this account may not be disabled or deleted, or null: the last active admin stays. */
-export async function lastAdminProblem(db: Database, userId: string): Promise<string | null> {
-	const [target] = await db.select({ role: user.role }).from(user).where(eq(user.id, userId));
-	if (target?.role !== 'admin') return null;
-	return (await otherActiveAdmins(db, userId)) === 0 ? LAST_ADMIN : null;
+/**
+ * Why this account may not be disabled or deleted, or null: the last active admin stays. The check
+ * runs in a write transaction (`begin immediate`) like `changeRole`'s. With `claim`, an admin that
+ * passes is marked disabled in that same transaction, before the caller disables or deletes it:
+ * of two admins disabling or deleting each other at once (also across app instances), the second
+ * check then sees the first as gone and refuses. The caller undoes the mark with `releaseClaim`
+ * when the disabling or deletion then fails.
+ */
+export async function lastAdminProblem(
+	db: Database,
+	userId: string,
+	{ claim = false }: { claim?: boolean } = {}
+): Promise<string | null> {
+	return writeTransaction(db, async (tx) => {
+		const [target] = await tx.select({ role: user.role, banned: user.banned }).from(user).where(eq(user.id, userId));
+		if (target?.role !== 'admin') return null;
+		if ((await otherActiveAdmins(tx, userId)) === 0) return LAST_ADMIN;
+		if (claim && !target.banned) await tx.update(user).set({ banned: true }).where(eq(user.id, userId));
+		return null;
+	});
+}
+
+/** Takes back the mark `lastAdminProblem({ claim: true })` set, when disabling or deleting did not happen. */
+export async function releaseClaim(db: Database, userId: string) {
+	await writeTransaction(db, (tx) =>
+		tx
+			.update(user)
+			.set({ banned: false })
+			.where(and(eq(user.id, userId), eq(user.role, 'admin'), isNull(user.banReason)))
+	);
+}
+
+/** Mappings of `userId` that others rely on: their drills are played on them, or their sessions replay against public or class-shared ones. */
+async function reliedOn(tx: Tx, userId: string): Promise<string[]> {
+	const versions = tx
+		.select({ id: mappingVersion.id })
+		.from(mappingVersion)
+		.where(eq(mappingVersion.mappingId, mapping.id));
+	const othersSessions = tx
+		.select({ id: rehearsal.id })
+		.from(rehearsal)
+		.where(
+			and(
+				ne(rehearsal.ownerId, userId),
+				or(eq(rehearsal.mappingId, mapping.id), inArray(rehearsal.mappingVersionId, versions))
+			)
+		);
+	const othersDrills = tx
+		.select({ id: drill.id })
+		.from(drill)
+		.where(
+			and(ne(drill.ownerId, userId), or(eq(drill.mappingId, mapping.id), inArray(drill.mappingVersionId, versions)))
+		);
+	const sharedWithClass = tx
+		.select({ id: classMapping.mappingId })
+		.from(classMapping)
+		.where(eq(classMapping.mappingId, mapping.id));
+	const rows = await tx
+		.select({ id: mapping.id })
+		.from(mapping)
+		.where(
+			and(
+				eq(mapping.ownerId, userId),
+				or(
+					exists(othersDrills),
+					and(or(eq(mapping.visibility, 'public'), exists(sharedWithClass)), exists(othersSessions))
+				)
+			)
+		);
+	return rows.map((r) => r.id);
 }
 
 /**
- * Deletes everything a person made before their account goes: sessions (with their chunks and
- * audio files) and mappings. Public mappings that other people's sessions were played with pass
- * to `heirId` (an admin), so those sessions keep working; without an heir they go too.
- * Does not rely on foreign-key cascades (a per-connection setting in SQLite).
+ * Deletes everything a person made before their account goes, in one write transaction that
+ * removes every dependent row itself (it does not rely on foreign-key cascades, a per-connection
+ * setting in SQLite): their classes (with members, invitations, assignments and the submissions to
+ * them), their drills, what they handed in as a student (submissions, scored takes, memberships),
+ * their sessions (also ones handed in: the person asked for their data to go), mappings, learned
+ * controller layouts and API tokens; then the audio files of all of it.
+ *
+ * Mappings others rely on pass to `heirId` (an admin), so that those keep working: ones other
+ * people's drills are played on, and public or class-shared ones other people's sessions replay
+ * against. Without an heir they go too: other sessions lose the link, other drills on them go.
  */
 export async function deleteAccountData(db: Database, userId: string, heirId: string | null) {
-	const files: { file: string | null }[] = [];
-	const kept = await writeTransaction(db, async (tx) => {
-		const ownRehearsals = tx.select({ id: rehearsal.id }).from(rehearsal).where(eq(rehearsal.ownerId, userId));
-		await tx.delete(rehearsalChunk).where(inArray(rehearsalChunk.rehearsalId, ownRehearsals));
-		// The files held at the moment of deletion, also one an upload attached just before.
-		files.push(
-			...(await tx.delete(rehearsal).where(eq(rehearsal.ownerId, userId)).returning({ file: rehearsal.audioFile }))
-		);
-
-		const usedByOthers = await tx
-			.selectDistinct({ id: mapping.id })
-			.from(mapping)
-			.innerJoin(rehearsal, eq(rehearsal.mappingId, mapping.id))
-			.where(and(eq(mapping.ownerId, userId), eq(mapping.visibility, 'public')));
-		const keep = heirId ? usedByOthers.map((m) => m.id) : [];
+	const { files, kept } = await writeTransaction(db, async (tx) => {
+		const keep = heirId ? await reliedOn(tx, userId) : [];
 		if (keep.length) await tx.update(mapping).set({ ownerId: heirId! }).where(inArray(mapping.id, keep));
 
-		const ownMappings = tx.select({ id: mapping.id }).from(mapping).where(eq(mapping.ownerId, userId));
-		const ownVersions = tx
-			.select({ id: mappingVersion.id })
-			.from(mappingVersion)
-			.where(inArray(mappingVersion.mappingId, ownMappings));
-		await tx.update(rehearsal).set({ mappingVersionId: null }).where(inArray(rehearsal.mappingVersionId, ownVersions));
-		await tx.update(rehearsal).set({ mappingId: null }).where(inArray(rehearsal.mappingId, ownMappings));
-		await tx.delete(mappingVersion).where(inArray(mappingVersion.mappingId, ownMappings));
-		await tx.delete(mapping).where(eq(mapping.ownerId, userId));
+		const files = [
+			...(await removeClasses(tx, eq(schoolClass.teacherId, userId))),
+			...(await removeDrills(tx, eq(drill.ownerId, userId))),
+			...(await removeSubmissions(tx, eq(submission.studentId, userId)))
+		];
+		await tx.delete(drillTake).where(eq(drillTake.userId, userId));
+		await tx.delete(classMember).where(eq(classMember.userId, userId));
+		await tx.update(classInvite).set({ acceptedBy: null }).where(eq(classInvite.acceptedBy, userId));
+		// The files held at the moment of deletion, also one an upload attached just before.
+		files.push(...(await removeSessions(tx, eq(rehearsal.ownerId, userId))).files);
+		files.push(...(await removeMappings(tx, eq(mapping.ownerId, userId))).files);
+		await tx.delete(controllerLayout).where(eq(controllerLayout.ownerId, userId));
 		await tx.delete(apikey).where(eq(apikey.referenceId, userId));
-		return keep.length;
+		return { files, kept: keep.length };
 	});
-	for (const { file } of files) if (file) await uploadStore().remove(file);
+	await removeFiles(files);
 	return { keptMappings: kept };
 }
 

@@ -37,6 +37,29 @@ export function serialWrite<T>(work: () => Promise<T>): Promise<T> {
 	return run;
 }
 
+/** A transaction handle as the work of `db.transaction` receives it. */
+export type Tx = Parameters<Parameters<Database['transaction']>[0]>[0];
+
+const busy = (e: unknown) => /SQLITE_BUSY|database is locked/i.test(String((e as Error)?.message ?? e));
+
+/**
+ * A write transaction that takes the write lock first (`begin immediate`), so what it reads cannot
+ * change before it writes. Within this process writes queue (`serialWrite`); another process
+ * holding the lock makes it wait and try again, for up to 5 s (a transaction's own connection has
+ * no busy timeout). The work must use `tx` only: the queue is held until it ends.
+ */
+export async function writeTransaction<T>(db: Database, work: (tx: Tx) => Promise<T>): Promise<T> {
+	const deadline = Date.now() + 5000;
+	for (;;) {
+		try {
+			return await serialWrite(() => db.transaction(work, { behavior: 'immediate' }));
+		} catch (e) {
+			if (!busy(e) || Date.now() > deadline) throw e;
+			await new Promise((r) => setTimeout(r, 10 + Math.random() * 40));
+		}
+	}
+}
+
 /**
  * Sets the per-connection settings on every connection of a local file's pool: foreign keys, and
  * how commits wait for the disk (config.ts `databaseSync`). Waiting for the disk on every commit
@@ -47,6 +70,8 @@ export function serialWrite<T>(work: () => Promise<T>): Promise<T> {
  * transaction holds a connection, `ROLLBACK` in the same script ends it (a safety level cannot be
  * changed inside a transaction) and the pragmas follow on that connection. A connection the pool
  * opens later (after dropping a broken one) keeps SQLite's default, FULL: only slower, never less safe.
+ * Its foreign-key setting is the library's default, and a remote libSQL database gets no pragma
+ * at all: no delete depends on foreign keys or their cascades (server/cleanup.ts).
  */
 async function setUpConnections(client: Client) {
 	const sync = databaseSync();

@@ -13,6 +13,7 @@ import { auth } from '$lib/server/auth';
 import { db } from '$lib/server/db';
 import { passwordProblem } from '$lib/server/passwords';
 import { requireArea } from '$lib/server/roles';
+import { releaseClaim } from '$lib/server/users';
 import { currentPassword, formObject, password, validate, type FieldErrors } from '$lib/server/validate';
 import { fail, redirect } from '@sveltejs/kit';
 import { APIError } from 'better-auth/api';
@@ -137,6 +138,8 @@ export const actions: Actions = {
 		try {
 			await auth.api.deleteUser({ body: { password: parsed.data.password }, headers: request.headers });
 		} catch (e) {
+			// The last-admin check may have marked the account disabled just before the deletion failed.
+			if (!(e instanceof APIError && authCode(e) === 'INVALID_PASSWORD')) await releaseClaim(db, user.id);
 			if (e instanceof APIError) {
 				const wrong = authCode(e) === 'INVALID_PASSWORD';
 				const message = wrong ? 'That is not your password.' : e.message;

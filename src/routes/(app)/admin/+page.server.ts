@@ -2,7 +2,7 @@ import { authCode, refuseAttempt } from '$lib/server/attempts';
 import { auth } from '$lib/server/auth';
 import { db } from '$lib/server/db';
 import { requireArea, ROLES } from '$lib/server/roles';
-import { changeRole, findUser, lastAdminProblem, listUsers, RoleChangeError } from '$lib/server/users';
+import { changeRole, findUser, lastAdminProblem, listUsers, releaseClaim, RoleChangeError } from '$lib/server/users';
 import { formObject, validate } from '$lib/server/validate';
 import { fail } from '@sveltejs/kit';
 import { APIError } from 'better-auth/api';
@@ -56,11 +56,12 @@ export const actions: Actions = {
 		const me = requireArea(locals, 'admin');
 		const { person, refusal } = await target(request, me.id, 'You cannot disable your own account.');
 		if (refusal) return refusal;
-		const lastAdmin = await lastAdminProblem(db, person.id);
+		const lastAdmin = await lastAdminProblem(db, person.id, { claim: true });
 		if (lastAdmin) return fail(409, { ok: false, userId: person.id, message: lastAdmin });
 		try {
 			await auth.api.banUser({ body: { userId: person.id }, headers: request.headers });
 		} catch (e) {
+			await releaseClaim(db, person.id);
 			return authRefusal(e, person.id);
 		}
 		return {
@@ -105,11 +106,12 @@ export const actions: Actions = {
 		const me = requireArea(locals, 'admin');
 		const { person, refusal } = await target(request, me.id, 'Delete your own account on your account page.');
 		if (refusal) return refusal;
-		const lastAdmin = await lastAdminProblem(db, person.id);
+		const lastAdmin = await lastAdminProblem(db, person.id, { claim: true });
 		if (lastAdmin) return fail(409, { ok: false, userId: person.id, message: lastAdmin });
 		try {
 			await auth.api.removeUser({ body: { userId: person.id }, headers: request.headers });
 		} catch (e) {
+			await releaseClaim(db, person.id);
 			if (authCode(e) === 'USER_NOT_FOUND')
 				return fail(404, { ok: false, userId: person.id, message: 'That account does not exist any more.' });
 			return authRefusal(e, person.id);

@@ -1,6 +1,6 @@
 import { db } from '$lib/server/db';
 import { listMappings } from '$lib/server/mappings';
-import { listRehearsals } from '$lib/server/rehearsals';
+import { handedIn, handedInProblem, listRehearsals } from '$lib/server/rehearsals';
 import { requireArea } from '$lib/server/roles';
 import type { PageServerLoad } from './$types';
 
@@ -8,6 +8,10 @@ export const load: PageServerLoad = async ({ locals, url }) => {
 	const user = requireArea(locals, 'app');
 	const q = url.searchParams.get('q') ?? '';
 	const [sessions, mappings] = await Promise.all([listRehearsals(db, user.id, q), listMappings(db, user.id)]);
+	const kept = await handedIn(
+		db,
+		sessions.map((s) => s.id)
+	);
 	return {
 		q,
 		sessions: sessions.map((s) => ({
@@ -20,7 +24,9 @@ export const load: PageServerLoad = async ({ locals, url }) => {
 			eventCount: s.eventCount,
 			findingCount: s.findingCount,
 			status: s.status,
-			hasAudio: s.audioFile !== null
+			hasAudio: s.audioFile !== null,
+			// Why Delete is refused: the take is handed in for an assignment (null: it may go).
+			keptBy: kept.has(s.id) ? handedInProblem(kept.get(s.id)!) : null
 		})),
 		mappings: mappings.map((m) => ({ id: m.id, name: m.name }))
 	};

@@ -1,4 +1,4 @@
-import { assignmentFor, assignmentSubmissions, submit } from '$lib/server/assignments';
+import { assignmentFor, assignmentSubmissions, deleteAssignment, handInsOf, submit } from '$lib/server/assignments';
 import { publicOrigin } from '$lib/server/config';
 import { db } from '$lib/server/db';
 import { drillBrief, takesOf } from '$lib/server/drills';
@@ -36,7 +36,13 @@ export const load: PageServerLoad = async ({ locals, params }) => {
 		}
 	};
 	if (a.role === 'teacher')
-		return { ...base, submissions: await assignmentSubmissions(db, a.id), takes: [], mine: null };
+		return {
+			...base,
+			submissions: await assignmentSubmissions(db, a.id),
+			handIns: await handInsOf(db, a.id),
+			takes: [],
+			mine: null
+		};
 	const takes = await takesOf(db, user.id, a.drillId);
 	const names = takes.length
 		? await db
@@ -56,6 +62,7 @@ export const load: PageServerLoad = async ({ locals, params }) => {
 	return {
 		...base,
 		submissions: [],
+		handIns: null,
 		takes: takes.map((t) => ({
 			id: t.rehearsalId,
 			name: names.find((n) => n.id === t.rehearsalId)?.name ?? 'Take',
@@ -77,6 +84,19 @@ export const load: PageServerLoad = async ({ locals, params }) => {
 };
 
 export const actions: Actions = {
+	/** The class teacher deletes the assignment; `graded` is how many graded hand-ins the confirmation named. */
+	delete: async ({ locals, params, request }) => {
+		const user = requireArea(locals, 'app');
+		const graded = Number((await request.formData()).get('graded') ?? 0);
+		let classId: string;
+		try {
+			({ classId } = await deleteAssignment(db, user.id, params.id, Number.isInteger(graded) ? graded : 0));
+		} catch (e) {
+			if (e instanceof Refusal && e.status === 409) return fail(409, { message: e.message });
+			pageRefusal(e);
+		}
+		redirect(303, `/classes/${classId}`);
+	},
 	submit: async ({ locals, params, request }) => {
 		const user = requireArea(locals, 'app');
 		let form: FormUpload<{ ext: string; mime: string }>;

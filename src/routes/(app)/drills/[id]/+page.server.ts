@@ -1,4 +1,4 @@
-import { classesOf, deleteDrill, drillFor, ownDrill, updateDrill } from '$lib/server/drills';
+import { classesOf, deleteDrill, drillFor, drillUse, ownDrill, updateDrill } from '$lib/server/drills';
 import { db } from '$lib/server/db';
 import { editorMappings } from '$lib/server/drill-editor';
 import { pageRefusal, Refusal } from '$lib/server/http';
@@ -11,11 +11,16 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 	const user = requireArea(locals, 'teaching');
 	const row = await ownDrill(db, user.id, params.id).catch(pageRefusal);
 	const d = await drillFor(db, user.id, row.id).catch(pageRefusal);
-	const [mappings, classes] = await Promise.all([editorMappings(db, user.id), classesOf(db, user.id)]);
+	const [mappings, classes, use] = await Promise.all([
+		editorMappings(db, user.id),
+		classesOf(db, user.id),
+		drillUse(db, row.id)
+	]);
 	return {
 		drill: { id: row.id, mappingId: row.mappingId, document: d.document, mappingVersion: d.mappingVersion },
 		mappings,
 		classes,
+		use,
 		saved: url.searchParams.has('saved')
 	};
 };
@@ -35,7 +40,13 @@ export const actions: Actions = {
 	},
 	delete: async ({ locals, params }) => {
 		const user = requireArea(locals, 'teaching');
-		await deleteDrill(db, user.id, params.id).catch(pageRefusal);
+		try {
+			await deleteDrill(db, user.id, params.id);
+		} catch (e) {
+			// Hand-ins of it exist (409): the page says what to do; anything else is the error page.
+			if (e instanceof Refusal && e.status === 409) return fail(409, { deleteProblem: e.message });
+			pageRefusal(e);
+		}
 		redirect(303, '/drills');
 	}
 };
