@@ -47,7 +47,7 @@ describe('mappings in the database', () => {
 	it('saves every change as a new version and keeps the old ones readable', async () => {
 		const id = await createMapping(t.db, t.kai, { document: demoMapping('two-deck') });
 		const changed = { ...demoMapping('two-deck'), name: 'Two-deck, faster', tempo: 128 };
-		expect(await saveVersion(t.db, t.kai, id, changed)).toBe(2);
+		expect(await saveVersion(t.db, t.kai, id, changed, 1)).toBe(2);
 		const now = await getMapping(t.db, t.kai, id);
 		expect(now.document.tempo).toBe(128);
 		expect(now.versions.map((v) => v.version)).toEqual([2, 1]);
@@ -57,7 +57,7 @@ describe('mappings in the database', () => {
 	it('lets only the owner change or delete a public mapping', async () => {
 		const id = await createMapping(t.db, t.teacher, { document: demoMapping('two-deck'), visibility: 'public' });
 		await expect(deleteMapping(t.db, t.kai, id)).rejects.toMatchObject({ status: 403 });
-		await expect(saveVersion(t.db, t.kai, id, demoMapping('two-deck'))).rejects.toMatchObject({ status: 403 });
+		await expect(saveVersion(t.db, t.kai, id, demoMapping('two-deck'), 1)).rejects.toMatchObject({ status: 403 });
 		await deleteMapping(t.db, t.teacher, id);
 		await expect(getMapping(t.db, t.kai, id)).rejects.toMatchObject({ status: 404 });
 	});

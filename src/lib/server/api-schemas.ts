@@ -17,11 +17,18 @@ export const newMappingBody = z.object({
 export const mappingVersionBody = z.object({
 	document: z.unknown().meta({ description: 'The changed mapping document, saved as the next version.' }),
 	baseVersion: z
-		.number()
-		.int()
-		.min(1)
-		.optional()
-		.meta({ description: 'The version the change started from; a newer one answers 409 with the newest.' })
+		.number({
+			error: (issue) =>
+				issue.input === undefined
+					? 'Send baseVersion: the number of the version your change started from (the `version` that GET /api/mappings/{id} answers), so a newer save is never overwritten.'
+					: 'baseVersion must be a version number: a whole number of 1 or more.'
+		})
+		.int('baseVersion must be a version number: a whole number of 1 or more.')
+		.min(1, 'baseVersion must be a version number: a whole number of 1 or more.')
+		.meta({
+			description:
+				'Required: the version the change started from. When a newer version exists the save answers 409 with the newest, and nothing is overwritten.'
+		})
 });
 
 export const mappingRenameBody = z.object({ name: z.string().trim().min(1, 'A mapping needs a name.').max(120) });

@@ -172,18 +172,19 @@ export class VersionConflict extends Refusal {
 
 /**
  * Saves a changed document as the next version; earlier versions stay for the sessions pinned to
- * them. With `baseVersion`, the save only goes through when that is still the newest version.
+ * them. The save only goes through when `baseVersion` (the version the change started from) is
+ * still the newest version: there is no save that overwrites without knowing what it replaces.
  */
 export async function saveVersion(
 	db: Database,
 	userId: string,
 	id: string,
 	input: unknown,
-	baseVersion?: number
+	baseVersion: number
 ): Promise<number> {
-	const row = await owned(db, userId, id);
+	await owned(db, userId, id);
 	const document = checkDocument(input);
-	const base = baseVersion ?? row.currentVersion;
+	const base = baseVersion;
 	const version = base + 1;
 	const saved = await db.transaction(async (tx) => {
 		// The compare-and-set on currentVersion is what stops two tabs from both saving "version n+1".
