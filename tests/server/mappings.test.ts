@@ -9,8 +9,11 @@ import {
 	backfillLintCounts,
 	listMappings,
 	saveVersion,
-	seedDemoMappings
+	seedDemoMappings,
+	setVisibility
 } from '$lib/server/mappings';
+import { shareMapping } from '$lib/server/classes';
+import { DEMO_CLASS } from '$lib/server/db/seed';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { demoDatabase } from './factories';
 
@@ -94,5 +97,39 @@ describe('what listing mappings costs', () => {
 		} finally {
 			delete process.env.PADPROOF_MAX_MAPPINGS;
 		}
+	});
+});
+
+describe('mappings shared with a class', () => {
+	it('lists a private mapping shared with a class to its members and its teacher, named by class', async () => {
+		const id = await createMapping(t.db, t.teacher, { document: demoMapping('two-deck'), name: 'Crew private set' });
+		await shareMapping(t.db, t.teacher, DEMO_CLASS.id, id);
+
+		const lena = (await listMappings(t.db, t.lena)).find((m) => m.id === id);
+		expect(lena).toMatchObject({ mine: false, visibility: 'private', classes: ['Wednesday night crew'] });
+		const teacher = (await listMappings(t.db, t.teacher)).find((m) => m.id === id);
+		expect(teacher).toMatchObject({ mine: true, classes: ['Wednesday night crew'] });
+		// Kai is in no class: the private mapping stays out of his list.
+		expect((await listMappings(t.db, t.kai)).some((m) => m.id === id)).toBe(false);
+		// The seeded share of the public two-deck demo is named for members, not for others.
+		const demo = (list: Awaited<ReturnType<typeof listMappings>>) => list.find((m) => m.name === 'Two-deck pad set')!;
+		expect(demo(await listMappings(t.db, t.lena)).classes).toEqual(['Wednesday night crew']);
+		expect(demo(await listMappings(t.db, t.kai)).classes).toEqual([]);
+
+		await deleteMapping(t.db, t.teacher, id);
+		expect((await listMappings(t.db, t.lena)).some((m) => m.id === id)).toBe(false);
+	});
+
+	it('drops the share of someone else’s mapping once its owner makes it private', async () => {
+		const id = await createMapping(t.db, t.kai, {
+			document: demoMapping('two-deck'),
+			name: 'Kai open set',
+			visibility: 'public'
+		});
+		await shareMapping(t.db, t.teacher, DEMO_CLASS.id, id);
+		expect((await listMappings(t.db, t.lena)).find((m) => m.id === id)?.classes).toEqual(['Wednesday night crew']);
+		await setVisibility(t.db, t.kai, id, 'private');
+		expect((await listMappings(t.db, t.lena)).some((m) => m.id === id)).toBe(false);
+		expect((await listMappings(t.db, t.teacher)).some((m) => m.id === id)).toBe(false);
 	});
 });

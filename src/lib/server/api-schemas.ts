@@ -71,7 +71,10 @@ export const mappingSummary = z.object({
 	bindings: z.number().int(),
 	lintCount: z.number().int(),
 	version: z.number().int(),
-	updatedAt: z.string().meta({ description: 'ISO 8601 time' })
+	updatedAt: z.string().meta({ description: 'ISO 8601 time' }),
+	classes: z
+		.array(z.string())
+		.meta({ description: 'The names of your classes (joined or taught) this mapping is shared with.' })
 });
 
 export const sessionRow = z.object({
