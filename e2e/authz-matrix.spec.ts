@@ -742,6 +742,19 @@ const ROUTES: Row[] = [
 		expect: classOnly(201)
 	},
 	{
+		// Members may read it, so they are told it is not theirs to change; to others it does not exist.
+		name: 'save a version of a private mapping of the teacher shared with the class',
+		method: 'PUT',
+		path: (_f, fresh) => `/api/mappings/${fresh}`,
+		body: (f) => ({ json: { document: f.document, baseVersion: 1 } }),
+		fresh: async (f) => {
+			const id = await createdId(await as.teacher.post('/api/mappings', { data: { document: f.document } }));
+			expect((await postForm(as.teacher, `/classes/${f.classId}?/share`, { mappingId: id })).status).toBe(200);
+			return id;
+		},
+		expect: { ...classOnly(200), student: 403 }
+	},
+	{
 		name: 'read a mapping shared with the class that its owner made private later',
 		method: 'GET',
 		path: (f) => `/api/mappings/${f.revokedMapping}`,

@@ -116,6 +116,15 @@ describe('mappings shared with a class', () => {
 		expect(demo(await listMappings(t.db, t.lena)).classes).toEqual(['Wednesday night crew']);
 		expect(demo(await listMappings(t.db, t.kai)).classes).toEqual([]);
 
+		// Members read it but do not change it: refused as not theirs (403), while Kai is told it does not exist.
+		await expect(saveVersion(t.db, t.lena, id, demoMapping('two-deck'), 1)).rejects.toMatchObject({
+			status: 403,
+			message: expect.stringMatching(/Fork it/)
+		});
+		await expect(deleteMapping(t.db, t.lena, id)).rejects.toMatchObject({ status: 403 });
+		await expect(saveVersion(t.db, t.kai, id, demoMapping('two-deck'), 1)).rejects.toMatchObject({ status: 404 });
+		expect((await getMapping(t.db, t.teacher, id)).version).toBe(1);
+
 		await deleteMapping(t.db, t.teacher, id);
 		expect((await listMappings(t.db, t.lena)).some((m) => m.id === id)).toBe(false);
 	});

@@ -193,7 +193,12 @@ export async function createMapping(
 
 async function owned(db: Database, userId: string, id: string) {
 	const [row] = await db.select().from(mapping).where(eq(mapping.id, id));
-	if (!row || row.deletedAt || (row.ownerId !== userId && row.visibility !== 'public'))
+	// Those who may read it (public, or shared with their class) are told it is not theirs to change.
+	if (
+		!row ||
+		row.deletedAt ||
+		(row.ownerId !== userId && row.visibility !== 'public' && !(await sharedWith(db, userId, id)))
+	)
 		throw new Refusal(404, 'That mapping does not exist, or it is private to someone else.');
 	if (row.ownerId !== userId)
 		throw new Refusal(403, 'Only the owner can change this mapping. Fork it to make your own copy.');
