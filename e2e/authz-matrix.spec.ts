@@ -222,11 +222,12 @@ const ROUTES: Row[] = [
 		expect: studentOnly(200)
 	},
 	{
-		name: 'save a version of a private mapping',
+		// A save must say which version it started from: without one it is refused before anything is read.
+		name: 'save a version of a private mapping without a base version',
 		method: 'PUT',
 		path: (f) => `/api/mappings/${f.privateMapping}`,
 		body: (f) => ({ json: { document: f.document } }),
-		expect: studentOnly(200)
+		expect: signedInApi(400)
 	},
 	{
 		name: 'change the visibility of a private mapping',
@@ -249,11 +250,11 @@ const ROUTES: Row[] = [
 		expect: signedInApi()
 	},
 	{
-		name: 'save a version of a public mapping',
+		name: 'save a version of a public mapping without a base version',
 		method: 'PUT',
 		path: (f) => `/api/mappings/${f.publicMapping}`,
 		body: (f) => ({ json: { document: f.document } }),
-		expect: teacherOwns(200)
+		expect: signedInApi(400)
 	},
 	{
 		name: 'change the visibility of a public mapping',
@@ -748,6 +749,19 @@ const ROUTES: Row[] = [
 		path: (f) => `/api/mappings/${f.sharedMapping}/fork`,
 		body: () => ({ json: {} }),
 		expect: classOnly(201)
+	},
+	{
+		// Members may read it, so they are told it is not theirs to change; to others it does not exist.
+		name: 'save a version of a private mapping of the teacher shared with the class',
+		method: 'PUT',
+		path: (_f, fresh) => `/api/mappings/${fresh}`,
+		body: (f) => ({ json: { document: f.document, baseVersion: 1 } }),
+		fresh: async (f) => {
+			const id = await createdId(await as.teacher.post('/api/mappings', { data: { document: f.document } }));
+			expect((await postForm(as.teacher, `/classes/${f.classId}?/share`, { mappingId: id })).status).toBe(200);
+			return id;
+		},
+		expect: { ...classOnly(200), student: 403 }
 	},
 	{
 		name: 'read a mapping shared with the class that its owner made private later',

@@ -141,10 +141,18 @@ const ENDPOINTS: Endpoint[] = [
 		)
 	},
 	{
-		name: 'save a mapping version',
+		// Without baseVersion nothing is saved, not even a valid document.
+		name: 'save a mapping version without a base version',
 		method: 'PUT',
 		path: () => `/api/mappings/${ids.mapping}`,
-		body: rawBody(fc.record({ document: notDocument }))
+		body: rawBody(
+			fc.record({
+				document: fc.oneof(
+					notDocument,
+					fc.constant(null).map(() => document)
+				)
+			})
+		)
 	},
 	{
 		name: 'change a mapping’s visibility',

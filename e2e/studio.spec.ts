@@ -1,8 +1,8 @@
 import AxeBuilder from '@axe-core/playwright';
-import { expect as baseExpect, test, type Page } from '@playwright/test';
+import { expect as baseExpect, test, type Browser, type Page } from '@playwright/test';
 import { readFileSync } from 'node:fs';
 import { installFakeMidi, ONE_CONTROLLER } from './fake-midi';
-import { open } from './support';
+import { open, signIn } from './support';
 
 test.setTimeout(240_000);
 // Two cores shared by many: give the dev server time to build a page on first visit.
@@ -332,4 +332,180 @@ test('MIDI learn gives a pad the note it was heard on, and try pads offers your 
 	await tryPads.getByLabel('Mapping').selectOption({ label: 'Learned set' });
 	await expect(tryPads).toContainText('One of your own mappings');
 	await expect(tryPads.getByRole('button', { name: /^Echo A/ })).toBeVisible();
+});
+
+test('the versions panel compares two versions in plain words and restores an old one as the newest', async ({
+	page
+}) => {
+	await signUp(page, 'Vera');
+	await newMapping(page, 'History set');
+	const id = mappingId(page);
+	const status = page.getByTestId('save-status');
+
+	// Edit 1: a one-press echo pad (version 2). Edit 2: delete its last step (version 3).
+	await buildEchoPad(page);
+	await saved(page);
+	await expect(status).toContainText('v2');
+	const rows = page.getByTestId('step-row');
+	const stepCount = await rows.count();
+	const last = rows.last();
+	const lastText = (await last.getByRole('button', { name: /^Step \d+:/ }).textContent())!.replace(/^Step \d+: /, '');
+	await last.getByRole('button', { name: /^Delete/ }).click();
+	await expect(rows).toHaveCount(stepCount - 1);
+	await saved(page);
+	await expect(status).toContainText('v3');
+
+	const panel = page.getByTestId('versions');
+	const history = panel.locator('ol').getByRole('listitem');
+	await expect(history).toHaveCount(3);
+	await expect(history.first()).toContainText('v3');
+	await expect(history.first()).toContainText('newest');
+
+	await panel.getByLabel('From').selectOption('1');
+	await panel.getByLabel('To').selectOption('3');
+	await panel.getByRole('button', { name: 'Compare' }).click();
+	const diff = panel.getByTestId('version-diff');
+	await expect(diff).toContainText('Echo A (Pad 1): now set up: Press: load Echo 1/8 into rack 1');
+	await panel.getByLabel('From').selectOption('2');
+	await panel.getByRole('button', { name: 'Compare' }).click();
+	await expect(diff).toContainText(`Echo A (Pad 1): step ${stepCount} removed: ${lastText}`);
+
+	const v1 = (await (await page.request.get(`/api/mappings/${id}?version=1`)).json()).mapping.document;
+	await panel.getByRole('button', { name: /^Restore\s*version 1$/ }).click();
+	await expect(page.getByText('Version 1 restored as the newest')).toBeVisible();
+	await saved(page);
+	await expect(status).toContainText('v4');
+	await expect(page.getByTestId('studio-pad-pad-1')).toContainText('empty');
+	await expect(history).toHaveCount(4);
+	await expect(history.first()).toContainText('v4');
+	const newest = await documentOf(page, id);
+	expect(newest.version).toBe(4);
+	expect(newest.document).toEqual(v1);
+});
+
+/** A second person in their own browser context (their own cookies). */
+async function secondPerson(browser: Browser) {
+	const context = await browser.newContext();
+	return { context, page: await context.newPage() };
+}
+
+test('a mapping one user shares publicly is seen, refused and forked by a newly signed-up user', async ({
+	page,
+	browser
+}) => {
+	const name = `Shared echo ${Date.now()}`;
+	await signUp(page, 'Noa');
+	await newMapping(page, name);
+	const id = mappingId(page);
+	await buildEchoPad(page);
+	await saved(page);
+	await open(page, '/mappings');
+	const mine = page.getByTestId('mappings-yours').getByTestId('mapping-row').filter({ hasText: name });
+	await mine.getByRole('button', { name: 'Share publicly' }).click();
+	await expect(page.getByRole('status')).toContainText(`${name} is now public`);
+	await expect(mine).toContainText('public');
+
+	const other = await secondPerson(browser);
+	const them = other.page;
+	await signUp(them, 'Remy');
+	await open(them, '/mappings');
+	const row = them.getByTestId('mappings-everyone').getByTestId('mapping-row').filter({ hasText: name });
+	await expect(row).toContainText('by Noa');
+	await expect(row.getByRole('button', { name: 'Share publicly' })).toHaveCount(0);
+	await row.getByRole('link', { name: 'View' }).click();
+	await expect(them).toHaveURL(new RegExp(`/mappings/${id}$`));
+	await expect(them.getByTestId('read-only')).toBeVisible();
+	await them.getByTestId('studio-pad-pad-1').click();
+	await expect(them.getByTestId('pad-sentences')).toContainText('load Echo 1/8');
+	await expect(them.getByRole('button', { name: 'Add a step' })).toHaveCount(0);
+	await expect(them.getByRole('button', { name: 'One-press effect…' })).toHaveCount(0);
+	await expect(them.getByRole('button', { name: /^Restore/ })).toHaveCount(0);
+
+	const before = await documentOf(them, id);
+	const refused = await them.request.put(`/api/mappings/${id}`, {
+		data: { document: { ...(before.document as object), name: 'Taken over' }, baseVersion: before.version }
+	});
+	expect(refused.status()).toBe(403);
+	expect(await refused.json()).toMatchObject({ error: expect.stringContaining('Fork it'), problems: [] });
+	const renamed = await them.request.patch(`/api/mappings/${id}`, { data: { name: 'Taken over' } });
+	expect(renamed.status()).toBe(403);
+	expect(await documentOf(them, id)).toEqual(before);
+
+	await them.getByRole('button', { name: 'Fork to edit' }).click();
+	await expect(them).toHaveURL((url) => /^\/mappings\/[0-9a-f-]{36}$/.test(url.pathname) && !url.pathname.endsWith(id));
+	const fork = mappingId(them);
+	await expect(them.getByText('Yours ·')).toBeVisible();
+	await them.getByLabel('Name of rack 1').fill('My echoes');
+	await them.getByLabel('Name of rack 1').blur();
+	await saved(them);
+	const forked = (await documentOf(them, fork)) as { version: number; document: { racks: { label: string }[] } };
+	expect(forked.version).toBe(2);
+	expect(forked.document.racks[0].label).toBe('My echoes');
+	// The original is as its owner left it.
+	expect(await documentOf(page, id)).toMatchObject({ version: before.version, document: before.document });
+	await other.context.close();
+});
+
+test('a private mapping a teacher shares with a class is listed to the class, read-only, with rehearse, fork and export', async ({
+	page,
+	browser
+}) => {
+	const name = `Crew only ${Date.now()}`;
+	await signIn(page, 'teacher');
+	await newMapping(page, name);
+	const id = mappingId(page);
+	await buildEchoPad(page);
+	await saved(page);
+	await open(page, '/classes/demo-class-wednesday');
+	const classShares = page.locator('section[aria-labelledby="shared-heading"]');
+	await classShares.getByRole('combobox', { name: 'Mapping' }).selectOption({ label: name });
+	await classShares.getByRole('button', { name: 'Share', exact: true }).click();
+	await expect(classShares.getByRole('link', { name: new RegExp(name) })).toBeVisible();
+	// The teacher sees it as their own, marked with the class.
+	await open(page, '/mappings');
+	await expect(page.getByTestId('mappings-yours').getByTestId('mapping-row').filter({ hasText: name })).toContainText(
+		'private · shared with Wednesday night crew'
+	);
+
+	// Lena is in the class; Kai is not.
+	const lena = await secondPerson(browser);
+	await signIn(lena.page, 'student2');
+	await open(lena.page, '/mappings');
+	const section = lena.page.getByTestId('mappings-classes');
+	await expect(section.getByRole('heading')).toContainText('Shared with your classes');
+	const row = section.getByTestId('mapping-row').filter({ hasText: name });
+	await expect(row).toContainText('by Tomas');
+	await expect(row).toContainText('private · shared with Wednesday night crew');
+	await expect(section.getByTestId('mapping-row').filter({ hasText: 'Two-deck pad set' })).toHaveCount(1);
+	await expect(
+		lena.page.getByTestId('mappings-everyone').getByTestId('mapping-row').filter({ hasText: name })
+	).toHaveCount(0);
+	await expect(row.getByRole('link', { name: 'Rehearse' })).toHaveAttribute('href', `/rehearse/${id}`);
+	await expect(row.getByRole('link', { name: 'Export' })).toHaveAttribute('href', `/api/mappings/${id}?download`);
+	for (const owner of ['Rename', 'Share publicly', 'Delete'])
+		await expect(row.getByRole('button', { name: owner })).toHaveCount(0);
+	const exported = await lena.page.request.get(`/api/mappings/${id}?download`);
+	expect(exported.status()).toBe(200);
+
+	await row.getByRole('link', { name: 'View' }).click();
+	await expect(lena.page.getByTestId('read-only')).toBeVisible();
+	const before = await documentOf(lena.page, id);
+	const refused = await lena.page.request.put(`/api/mappings/${id}`, {
+		data: { document: before.document, baseVersion: before.version }
+	});
+	expect(refused.status()).toBe(403);
+
+	await open(lena.page, '/mappings');
+	await row.getByRole('button', { name: 'Fork' }).click();
+	await expect(lena.page.getByRole('status')).toContainText(`${name} was forked into your mappings`);
+	const fork = lena.page.getByTestId('mappings-yours').getByTestId('mapping-row').filter({ hasText: name });
+	await expect(fork).toContainText('Yours · v1 · private');
+
+	const kai = await secondPerson(browser);
+	await signIn(kai.page, 'student');
+	await open(kai.page, '/mappings');
+	await expect(kai.page.getByTestId('mapping-row').filter({ hasText: name })).toHaveCount(0);
+	await expect(kai.page.getByTestId('mappings-classes')).toContainText('Nothing is shared with your classes');
+	await lena.context.close();
+	await kai.context.close();
 });

@@ -4,7 +4,9 @@ export class ApiError extends Error {
 	constructor(
 		readonly status: number,
 		message: string,
-		readonly problems: { path: string; message: string }[] = []
+		readonly problems: { path: string; message: string }[] = [],
+		/** The whole refusal as the server sent it (a 409 on a mapping save carries `newest`). */
+		readonly body: unknown = null
 	) {
 		super(message);
 	}
@@ -28,7 +30,12 @@ export async function api<T>(
 	if (response.status === 204) return undefined as T;
 	const body = await response.json().catch(() => null);
 	if (!response.ok) {
-		throw new ApiError(response.status, body?.error ?? `The server answered ${response.status}.`, body?.problems ?? []);
+		throw new ApiError(
+			response.status,
+			body?.error ?? `The server answered ${response.status}.`,
+			body?.problems ?? [],
+			body
+		);
 	}
 	return body as T;
 }

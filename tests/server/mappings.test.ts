@@ -9,8 +9,11 @@ import {
 	backfillLintCounts,
 	listMappings,
 	saveVersion,
-	seedDemoMappings
+	seedDemoMappings,
+	setVisibility
 } from '$lib/server/mappings';
+import { shareMapping } from '$lib/server/classes';
+import { DEMO_CLASS } from '$lib/server/db/seed';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { demoDatabase } from './factories';
 
@@ -47,7 +50,7 @@ describe('mappings in the database', () => {
 	it('saves every change as a new version and keeps the old ones readable', async () => {
 		const id = await createMapping(t.db, t.kai, { document: demoMapping('two-deck') });
 		const changed = { ...demoMapping('two-deck'), name: 'Two-deck, faster', tempo: 128 };
-		expect(await saveVersion(t.db, t.kai, id, changed)).toBe(2);
+		expect(await saveVersion(t.db, t.kai, id, changed, 1)).toBe(2);
 		const now = await getMapping(t.db, t.kai, id);
 		expect(now.document.tempo).toBe(128);
 		expect(now.versions.map((v) => v.version)).toEqual([2, 1]);
@@ -57,7 +60,7 @@ describe('mappings in the database', () => {
 	it('lets only the owner change or delete a public mapping', async () => {
 		const id = await createMapping(t.db, t.teacher, { document: demoMapping('two-deck'), visibility: 'public' });
 		await expect(deleteMapping(t.db, t.kai, id)).rejects.toMatchObject({ status: 403 });
-		await expect(saveVersion(t.db, t.kai, id, demoMapping('two-deck'))).rejects.toMatchObject({ status: 403 });
+		await expect(saveVersion(t.db, t.kai, id, demoMapping('two-deck'), 1)).rejects.toMatchObject({ status: 403 });
 		await deleteMapping(t.db, t.teacher, id);
 		await expect(getMapping(t.db, t.kai, id)).rejects.toMatchObject({ status: 404 });
 	});
@@ -94,5 +97,48 @@ describe('what listing mappings costs', () => {
 		} finally {
 			delete process.env.PADPROOF_MAX_MAPPINGS;
 		}
+	});
+});
+
+describe('mappings shared with a class', () => {
+	it('lists a private mapping shared with a class to its members and its teacher, named by class', async () => {
+		const id = await createMapping(t.db, t.teacher, { document: demoMapping('two-deck'), name: 'Crew private set' });
+		await shareMapping(t.db, t.teacher, DEMO_CLASS.id, id);
+
+		const lena = (await listMappings(t.db, t.lena)).find((m) => m.id === id);
+		expect(lena).toMatchObject({ mine: false, visibility: 'private', classes: ['Wednesday night crew'] });
+		const teacher = (await listMappings(t.db, t.teacher)).find((m) => m.id === id);
+		expect(teacher).toMatchObject({ mine: true, classes: ['Wednesday night crew'] });
+		// Kai is in no class: the private mapping stays out of his list.
+		expect((await listMappings(t.db, t.kai)).some((m) => m.id === id)).toBe(false);
+		// The seeded share of the public two-deck demo is named for members, not for others.
+		const demo = (list: Awaited<ReturnType<typeof listMappings>>) => list.find((m) => m.name === 'Two-deck pad set')!;
+		expect(demo(await listMappings(t.db, t.lena)).classes).toEqual(['Wednesday night crew']);
+		expect(demo(await listMappings(t.db, t.kai)).classes).toEqual([]);
+
+		// Members read it but do not change it: refused as not theirs (403), while Kai is told it does not exist.
+		await expect(saveVersion(t.db, t.lena, id, demoMapping('two-deck'), 1)).rejects.toMatchObject({
+			status: 403,
+			message: expect.stringMatching(/Fork it/)
+		});
+		await expect(deleteMapping(t.db, t.lena, id)).rejects.toMatchObject({ status: 403 });
+		await expect(saveVersion(t.db, t.kai, id, demoMapping('two-deck'), 1)).rejects.toMatchObject({ status: 404 });
+		expect((await getMapping(t.db, t.teacher, id)).version).toBe(1);
+
+		await deleteMapping(t.db, t.teacher, id);
+		expect((await listMappings(t.db, t.lena)).some((m) => m.id === id)).toBe(false);
+	});
+
+	it('drops the share of someone else’s mapping once its owner makes it private', async () => {
+		const id = await createMapping(t.db, t.kai, {
+			document: demoMapping('two-deck'),
+			name: 'Kai open set',
+			visibility: 'public'
+		});
+		await shareMapping(t.db, t.teacher, DEMO_CLASS.id, id);
+		expect((await listMappings(t.db, t.lena)).find((m) => m.id === id)?.classes).toEqual(['Wednesday night crew']);
+		await setVisibility(t.db, t.kai, id, 'private');
+		expect((await listMappings(t.db, t.lena)).some((m) => m.id === id)).toBe(false);
+		expect((await listMappings(t.db, t.teacher)).some((m) => m.id === id)).toBe(false);
 	});
 });

@@ -23,11 +23,18 @@ export const upgradeNotes = z.array(z.string()).meta({
 export const mappingVersionBody = z.object({
 	document: z.unknown().meta({ description: 'The changed mapping document, saved as the next version.' }),
 	baseVersion: z
-		.number()
-		.int()
-		.min(1)
-		.optional()
-		.meta({ description: 'The version the change started from; a newer one answers 409 with the newest.' })
+		.number({
+			error: (issue) =>
+				issue.input === undefined
+					? 'Send baseVersion: the number of the version your change started from (the `version` that GET /api/mappings/{id} answers), so a newer save is never overwritten.'
+					: 'baseVersion must be a version number: a whole number of 1 or more.'
+		})
+		.int('baseVersion must be a version number: a whole number of 1 or more.')
+		.min(1, 'baseVersion must be a version number: a whole number of 1 or more.')
+		.meta({
+			description:
+				'Required: the version the change started from. When a newer version exists the save answers 409 with the newest, and nothing is overwritten.'
+		})
 });
 
 export const mappingRenameBody = z.object({ name: z.string().trim().min(1, 'A mapping needs a name.').max(120) });
@@ -70,7 +77,10 @@ export const mappingSummary = z.object({
 	bindings: z.number().int(),
 	lintCount: z.number().int(),
 	version: z.number().int(),
-	updatedAt: z.string().meta({ description: 'ISO 8601 time' })
+	updatedAt: z.string().meta({ description: 'ISO 8601 time' }),
+	classes: z
+		.array(z.string())
+		.meta({ description: 'The names of your classes (joined or taught) this mapping is shared with.' })
 });
 
 export const sessionRow = z.object({

@@ -1,11 +1,11 @@
 // Mappings in the database: a row per mapping and a row per version of its document. Only the
 // owner changes or deletes a mapping; public mappings can be read (and rehearsed) by everyone.
 import { DEMO_MAPPINGS, lintMapping, parseMapping, type Mapping } from '$lib/engine';
-import { and, count, desc, eq, isNull, or } from 'drizzle-orm';
+import { and, count, desc, eq, inArray, isNotNull, isNull, or } from 'drizzle-orm';
 import { randomUUID } from 'node:crypto';
 import { limits } from './config';
 import type { Database } from './db';
-import { mapping, mappingVersion, user } from './db/schema';
+import { classMapping, classMember, mapping, mappingVersion, schoolClass, user } from './db/schema';
 import { sharedWith } from './classes';
 import { Refusal } from './http';
 
@@ -24,6 +24,8 @@ export interface MappingSummary {
 	lintCount: number;
 	version: number;
 	updatedAt: Date;
+	/** The names of the user's classes (joined or taught) this mapping is shared with. */
+	classes: string[];
 }
 
 export interface MappingDetail extends MappingSummary {
@@ -37,7 +39,8 @@ function summarize(
 	owner: string,
 	userId: string,
 	doc: Mapping,
-	lintCount: number | null
+	lintCount: number | null,
+	classes: string[] = []
 ): MappingSummary {
 	return {
 		id: row.id,
@@ -51,12 +54,47 @@ function summarize(
 		bindings: doc.bindings.length,
 		lintCount: lintCount ?? lintMapping(doc).length,
 		version: row.currentVersion,
-		updatedAt: row.updatedAt
+		updatedAt: row.updatedAt,
+		classes
 	};
 }
 
-/** The user's own mappings and everyone's public ones, newest first. */
+/**
+ * The mappings shared with the classes the user joined or teaches, with the names of those classes.
+ * A share counts while its members may read the mapping: it is public, or the class's teacher owns it
+ * (the rule of `sharedWith`; a teacher reads their own class's shares by the same rule).
+ */
+async function classShares(db: Database, userId: string): Promise<Map<string, string[]>> {
+	const rows = await db
+		.select({ mappingId: classMapping.mappingId, className: schoolClass.name })
+		.from(classMapping)
+		.innerJoin(schoolClass, eq(schoolClass.id, classMapping.classId))
+		.innerJoin(mapping, eq(mapping.id, classMapping.mappingId))
+		.leftJoin(classMember, and(eq(classMember.classId, classMapping.classId), eq(classMember.userId, userId)))
+		.where(
+			and(
+				isNull(mapping.deletedAt),
+				or(eq(schoolClass.teacherId, userId), isNotNull(classMember.userId)),
+				or(eq(mapping.visibility, 'public'), eq(mapping.ownerId, schoolClass.teacherId))
+			)
+		)
+		.orderBy(schoolClass.name);
+	const shares = new Map<string, string[]>();
+	for (const r of rows) shares.set(r.mappingId, [...(shares.get(r.mappingId) ?? []), r.className]);
+	return shares;
+}
+
+/**
+ * The user's own mappings, the ones shared with their classes (private ones included) and
+ * everyone's public ones, newest first. `classes` names the user's classes each one is shared with.
+ */
 export async function listMappings(db: Database, userId: string): Promise<MappingSummary[]> {
+	const shares = await classShares(db, userId);
+	const readable = or(
+		eq(mapping.ownerId, userId),
+		eq(mapping.visibility, 'public'),
+		shares.size ? inArray(mapping.id, [...shares.keys()]) : undefined
+	);
 	const rows = await db
 		.select({ m: mapping, owner: user.name, document: mappingVersion.document, lintCount: mappingVersion.lintCount })
 		.from(mapping)
@@ -65,9 +103,11 @@ export async function listMappings(db: Database, userId: string): Promise<Mappin
 			mappingVersion,
 			and(eq(mappingVersion.mappingId, mapping.id), eq(mappingVersion.version, mapping.currentVersion))
 		)
-		.where(and(isNull(mapping.deletedAt), or(eq(mapping.ownerId, userId), eq(mapping.visibility, 'public'))))
+		.where(and(isNull(mapping.deletedAt), readable))
 		.orderBy(desc(mapping.updatedAt));
-	return rows.map((r) => summarize(r.m, r.owner, userId, storedDocument(r.document), r.lintCount));
+	return rows.map((r) =>
+		summarize(r.m, r.owner, userId, storedDocument(r.document), r.lintCount, shares.get(r.m.id) ?? [])
+	);
 }
 
 export async function getMapping(db: Database, userId: string, id: string, version?: number): Promise<MappingDetail> {
@@ -153,7 +193,12 @@ export async function createMapping(
 
 async function owned(db: Database, userId: string, id: string) {
 	const [row] = await db.select().from(mapping).where(eq(mapping.id, id));
-	if (!row || row.deletedAt || (row.ownerId !== userId && row.visibility !== 'public'))
+	// Those who may read it (public, or shared with their class) are told it is not theirs to change.
+	if (
+		!row ||
+		row.deletedAt ||
+		(row.ownerId !== userId && row.visibility !== 'public' && !(await sharedWith(db, userId, id)))
+	)
 		throw new Refusal(404, 'That mapping does not exist, or it is private to someone else.');
 	if (row.ownerId !== userId)
 		throw new Refusal(403, 'Only the owner can change this mapping. Fork it to make your own copy.');
@@ -172,18 +217,19 @@ export class VersionConflict extends Refusal {
 
 /**
  * Saves a changed document as the next version; earlier versions stay for the sessions pinned to
- * them. With `baseVersion`, the save only goes through when that is still the newest version.
+ * them. The save only goes through when `baseVersion` (the version the change started from) is
+ * still the newest version: there is no save that overwrites without knowing what it replaces.
  */
 export async function saveVersion(
 	db: Database,
 	userId: string,
 	id: string,
 	input: unknown,
-	baseVersion?: number
+	baseVersion: number
 ): Promise<number> {
-	const row = await owned(db, userId, id);
+	await owned(db, userId, id);
 	const document = checkDocument(input);
-	const base = baseVersion ?? row.currentVersion;
+	const base = baseVersion;
 	const version = base + 1;
 	const saved = await db.transaction(async (tx) => {
 		// The compare-and-set on currentVersion is what stops two tabs from both saving "version n+1".

@@ -70,13 +70,17 @@ export const OPERATIONS: Operation[] = [
 		path: '/api/mappings/{id}',
 		tag: 'Mappings',
 		summary: 'Save a changed document as the next version (owner only)',
+		description:
+			'Send `{ document, baseVersion }`, where `baseVersion` is the version your change started from. When it is not ' +
+			'the newest version the save is refused with 409, the answer carries `newest: { version, document }`, and ' +
+			'nothing is overwritten. Without `baseVersion` the save is refused with 400.',
 		body: { schema: s.mappingVersionBody },
 		ok: {
 			status: 200,
 			description: 'Saved',
 			schema: z.object({ version: z.number().int(), notes: s.upgradeNotes })
 		},
-		refusals: [400, 401, 403, 404, 413]
+		refusals: [400, 401, 403, 404, 409, 413]
 	},
 	{
 		method: 'patch',

@@ -66,6 +66,20 @@ export class MappingEditor {
 		return this.#set(draft);
 	}
 
+	/**
+	 * Replaces the whole document with `document` (an old version being restored): the result is
+	 * exactly that document, keys the current one has and it lacks included, saved as the newest
+	 * version. Undo brings the replaced document back.
+	 */
+	replace(document: Mapping): Problem[] {
+		const next = copy(document);
+		const parsed = parseMapping(next);
+		if (!parsed.ok) return parsed.problems;
+		this.#past = [...this.#past.slice(-LIMIT + 1), this.doc];
+		this.#future = [];
+		return this.#set(next);
+	}
+
 	/** Puts a binding in place of the one on its input (or adds it); null removes it. */
 	setBinding(input: string, binding: Binding | null): Problem[] {
 		return this.change((d) => {
