@@ -20,7 +20,9 @@ import {
 	roster,
 	taughtClass
 } from '$lib/server/classes';
-import { schoolClass } from '$lib/server/db/schema';
+import { schoolClass, user } from '$lib/server/db/schema';
+import { gradebookCsv } from '$lib/server/gradebook-csv';
+import Papa from 'papaparse';
 import { createDrill, drillFor, recordTake } from '$lib/server/drills';
 import { Refusal } from '$lib/server/http';
 import { readOutbox } from '$lib/server/mail';
@@ -285,5 +287,62 @@ describe('drills, assignments and submissions', () => {
 			events: tap(100)
 		});
 		await refused(submit(t.db, lena, assignmentId, plain, null, ORIGIN), 400);
+	});
+});
+
+describe('gradebook', () => {
+	/** Kai in the class, a take of the drill handed in for its assignment. */
+	async function handedIn() {
+		const sc = await scene();
+		await acceptInvitation(t.db, sc.kai, (await readOutbox())[0].body.match(/\/join\/([\w-]+)/)![1]);
+		const assignmentId = await createAssignment(
+			t.db,
+			sc.tomas,
+			sc.classId,
+			{ drillId: sc.drillId, dueAt: new Date(Date.now() + 1e7) },
+			ORIGIN
+		);
+		const { id } = await kaiTake(sc.kai.id, sc.mappingId, sc.drillId);
+		const sub = await submit(t.db, sc.kai, assignmentId, id, null, ORIGIN);
+		return { ...sc, assignmentId, submissionId: sub.id };
+	}
+
+	it('keeps a student who left the class, with their hand-in, marked as having left', async () => {
+		const { tomas, kai, classId, submissionId } = await handedIn();
+		const lena = who('lena@mixlab.example');
+		const [row] = await t.db.select().from(schoolClass).where(eq(schoolClass.id, classId));
+		await joinByCode(t.db, lena.id, row.joinCode);
+		await removeMember(t.db, tomas.id, classId, kai.id);
+		const book = await gradebook(t.db, tomas.id, classId);
+		expect(book.map((r) => [r.student, r.left, r.submissionId])).toEqual([
+			['Kai Lindqvist', true, submissionId],
+			['Lena Osei', false, null]
+		]);
+		const csv = Papa.parse<Record<string, string>>(gradebookCsv(book).replace(/^\uFEFF/, ''), {
+			header: true,
+			skipEmptyLines: true
+		});
+		expect(csv.data.map((r) => [r.student, r.left_class])).toEqual([
+			['Kai Lindqvist', 'yes'],
+			['Lena Osei', 'no']
+		]);
+	});
+
+	it('writes a name that starts like a formula as text in the CSV', async () => {
+		// OWASP "CSV Injection": a cell beginning with = + - @ (or tab, CR) runs as a formula in a
+		// spreadsheet; prefixing it with a single quote makes the spreadsheet show it as text.
+		const { tomas, kai, classId } = await handedIn();
+		const names = ['=HYPERLINK("http://evil.example","Kai")', '+1+1', '-2+3', '@SUM(A1)'];
+		const texts: string[] = [];
+		for (const name of names) {
+			await t.db.update(user).set({ name }).where(eq(user.id, kai.id));
+			const book = await gradebook(t.db, tomas.id, classId);
+			const csv = Papa.parse<Record<string, string>>(gradebookCsv(book).replace(/^\uFEFF/, ''), {
+				header: true,
+				skipEmptyLines: true
+			});
+			texts.push(csv.data[0].student);
+		}
+		expect(texts).toEqual(names.map((n) => `'${n}`));
 	});
 });

@@ -256,16 +256,19 @@ export async function assignmentSubmissions(db: Database, assignmentId: string) 
 
 export type { GradebookRow } from '$lib/teaching';
 
-/** One row per student and assignment of a class, submitted or not. Teacher only. */
+/**
+ * One row per student and assignment of a class, submitted or not. Teacher only. Students who
+ * left the class stay, marked `left`, with a row for each assignment, as long as they handed
+ * something in here.
+ */
 export async function gradebook(db: Database, teacherId: string, classId: string): Promise<GradebookRow[]> {
 	await taughtClass(db, teacherId, classId);
-	const [people, tasks] = await Promise.all([
+	const [members, tasks] = await Promise.all([
 		db
 			.select({ id: user.id, name: user.name, email: user.email })
 			.from(classMember)
 			.innerJoin(user, eq(user.id, classMember.userId))
-			.where(eq(classMember.classId, classId))
-			.orderBy(user.name),
+			.where(eq(classMember.classId, classId)),
 		classAssignments(db, classId)
 	]);
 	const subs = tasks.length
@@ -279,6 +282,17 @@ export async function gradebook(db: Database, teacherId: string, classId: string
 					)
 				)
 		: [];
+	const memberIds = new Set(members.map((m) => m.id));
+	const formerIds = [...new Set(subs.map((s) => s.studentId))].filter((id) => !memberIds.has(id));
+	const former = formerIds.length
+		? await db
+				.select({ id: user.id, name: user.name, email: user.email })
+				.from(user)
+				.where(inArray(user.id, formerIds))
+		: [];
+	const people = [...members.map((p) => ({ ...p, left: false })), ...former.map((p) => ({ ...p, left: true }))].sort(
+		(a, b) => (a.name < b.name ? -1 : a.name > b.name ? 1 : a.email < b.email ? -1 : 1)
+	);
 	const rows: GradebookRow[] = [];
 	for (const p of people)
 		for (const t of tasks) {
@@ -297,7 +311,8 @@ export async function gradebook(db: Database, teacherId: string, classId: string
 				pass: s ? s.pass : null,
 				grade: s?.grade ?? null,
 				comment: s?.comment ?? null,
-				submissionId: s?.id ?? null
+				submissionId: s?.id ?? null,
+				left: p.left
 			});
 		}
 	return rows;
