@@ -27,7 +27,16 @@ import { createDrill, drillFor, recordTake } from '$lib/server/drills';
 import { Refusal } from '$lib/server/http';
 import { readOutbox } from '$lib/server/mail';
 import { createMapping, getMapping, listMappings, setVisibility } from '$lib/server/mappings';
-import { getRehearsal, importSession } from '$lib/server/rehearsals';
+import {
+	appendChunk,
+	createRehearsal,
+	finishRehearsal,
+	getRehearsal,
+	importSession,
+	sessionDocument
+} from '$lib/server/rehearsals';
+import { runCli } from '$lib/cli/padproof';
+import { writeFileSync } from 'node:fs';
 import { listUsers } from '$lib/server/users';
 import { eq } from 'drizzle-orm';
 import { mkdtempSync, rmSync } from 'node:fs';
@@ -344,5 +353,67 @@ describe('gradebook', () => {
 			texts.push(csv.data[0].student);
 		}
 		expect(texts).toEqual(names.map((n) => `'${n}`));
+	});
+});
+
+describe('a take scores the same in the app and on the command line', () => {
+	const FIELDS = ['hits', 'misses', 'extras', 'hitRate', 'meanSignedMs', 'meanAbsMs', 'medianAbsMs', 'p95AbsMs'];
+
+	/** Scores the exported drill, mapping version and session document with `padproof score --json`. */
+	async function cliScore(userId: string, drillId: string, rehearsalId: string) {
+		const d = await drillFor(t.db, userId, drillId);
+		const { session } = await sessionDocument(t.db, userId, rehearsalId);
+		const file = (name: string, doc: unknown) => {
+			const path = join(outbox, name);
+			writeFileSync(path, JSON.stringify(doc));
+			return path;
+		};
+		const r = runCli([
+			'score',
+			file('drill.json', d.document),
+			file('mapping.json', d.mapping),
+			file('session.json', session),
+			'--json'
+		]);
+		return { ...(JSON.parse(r.out) as Record<string, unknown>), zero: session.clock.zero };
+	}
+
+	it('a practice take: its session document carries the drill\'s beat 0 as its clock zero', async () => {
+		const { kai, classId, tomas, mappingId, drillId } = await scene();
+		await acceptInvitation(t.db, kai, (await readOutbox())[0].body.match(/\/join\/([\w-]+)/)![1]);
+		await createAssignment(t.db, tomas, classId, { drillId, dueAt: new Date(Date.now() + 1e7) }, ORIGIN);
+		// As the practice room records it: the take begins on the room's clock (beat 0 long before the
+		// take), and the room puts the take clock's zero on the drill's beat 0 (2000 ms in) before it
+		// finishes. Presses 10 ms late on beats 0–2, beat 3 missed.
+		const { id } = await createRehearsal(t.db, kai.id, {
+			mappingId,
+			tempo: 120,
+			clock: { zero: -48_213.25, tempos: [{ at: -48_213.25, bpm: 120 }] }
+		});
+		await appendChunk(t.db, kai.id, id, { seq: 0, events: [...tap(2010), ...tap(2510), ...tap(3010)] });
+		await finishRehearsal(t.db, kai.id, id, 'Four on the floor · try 1', {
+			zero: 2000,
+			tempos: [{ at: 2000, bpm: 120 }]
+		});
+		const app = await recordTake(t.db, kai.id, { rehearsalId: id, drillId, zero: 2000 });
+		const cli = await cliScore(kai.id, drillId, id);
+		expect(cli.zero).toBe(2000);
+		expect(app).toMatchObject({ hits: 3, misses: 1, meanSignedMs: 10 });
+		for (const f of FIELDS) expect(cli[f], f).toEqual(app[f as keyof typeof app]);
+		expect(cli.findings).toBe(app.findings);
+		expect(cli.pass).toBe(app.pass);
+	});
+
+	it('a take whose beat 0 is given apart from its session clock: the session clock moves there', async () => {
+		const { kai, classId, tomas, mappingId, drillId } = await scene();
+		await acceptInvitation(t.db, kai, (await readOutbox())[0].body.match(/\/join\/([\w-]+)/)![1]);
+		await createAssignment(t.db, tomas, classId, { drillId, dueAt: new Date(Date.now() + 1e7) }, ORIGIN);
+		// A version 1 session (beat 0 at 0) scored with beat 0 at 2000 ms, as a script might.
+		const { id, score } = await kaiTake(kai.id, mappingId, drillId);
+		const cli = await cliScore(kai.id, drillId, id);
+		expect(cli.zero).toBe(2000);
+		for (const f of FIELDS) expect(cli[f], f).toEqual(score[f as keyof typeof score]);
+		// Scored again without a zero: the session's own beat 0, the same score.
+		expect(await recordTake(t.db, kai.id, { rehearsalId: id, drillId })).toEqual(score);
 	});
 });
