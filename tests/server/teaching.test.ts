@@ -1,12 +1,13 @@
 // Classes, drills, assignments and submissions on a real (temporary) database: the whole path a
 // teacher and a student take, and who may see what. Mail goes to a temporary outbox.
-import { padId, type SessionEvent } from '$lib/engine';
+import { padId, scoreSummary as scoreSummaryOf, type SessionEvent } from '$lib/engine';
 import {
 	assignmentFor,
 	assignmentsOf,
 	createAssignment,
 	gradebook,
 	review,
+	submissionBreakdown,
 	submissionFor,
 	submit
 } from '$lib/server/assignments';
@@ -20,13 +21,21 @@ import {
 	roster,
 	taughtClass
 } from '$lib/server/classes';
-import { schoolClass, user } from '$lib/server/db/schema';
+import { drill as drillTable, schoolClass, user } from '$lib/server/db/schema';
 import { gradebookCsv } from '$lib/server/gradebook-csv';
 import Papa from 'papaparse';
-import { createDrill, drillFor, recordTake } from '$lib/server/drills';
+import {
+	createDrill,
+	drillFor,
+	duplicateDrill,
+	HAS_HAND_INS,
+	ownDrill,
+	recordTake,
+	updateDrill
+} from '$lib/server/drills';
 import { Refusal } from '$lib/server/http';
 import { readOutbox } from '$lib/server/mail';
-import { createMapping, getMapping, listMappings, setVisibility } from '$lib/server/mappings';
+import { createMapping, getMapping, listMappings, saveVersion, setVisibility } from '$lib/server/mappings';
 import {
 	appendChunk,
 	createRehearsal,
@@ -415,5 +424,109 @@ describe('a take scores the same in the app and on the command line', () => {
 		for (const f of FIELDS) expect(cli[f], f).toEqual(score[f as keyof typeof score]);
 		// Scored again without a zero: the session's own beat 0, the same score.
 		expect(await recordTake(t.db, kai.id, { rehearsalId: id, drillId })).toEqual(score);
+	});
+});
+
+describe('a drill with hand-ins', () => {
+	/** Kai in the class with the drill assigned, and a take of it (not handed in yet). */
+	async function assigned() {
+		const sc = await scene();
+		await acceptInvitation(t.db, sc.kai, (await readOutbox())[0].body.match(/\/join\/([\w-]+)/)![1]);
+		const assignmentId = await createAssignment(
+			t.db,
+			sc.tomas,
+			sc.classId,
+			{ drillId: sc.drillId, dueAt: new Date(Date.now() + 1e7) },
+			ORIGIN
+		);
+		const { id: take, score } = await kaiTake(sc.kai.id, sc.mappingId, sc.drillId);
+		return { ...sc, assignmentId, take, score };
+	}
+	const summaryOf = async (userId: string, id: string) => {
+		const b = await submissionBreakdown(t.db, userId, id);
+		const { findingKinds: _k, ...detail } = scoreSummaryOf(b.detail!);
+		const { findingKinds: _s, ...stored } = b.submission.score;
+		return { detail, stored };
+	};
+
+	it('is no longer changed: targets, pass mark and mapping version are refused (409), the name may change', async () => {
+		const { tomas, kai, mappingId, drillId, assignmentId, take } = await assigned();
+		// Before any hand-in the teacher may still change it.
+		await updateDrill(t.db, tomas.id, drillId, { mappingId, document: { ...drillDoc, windowMs: 50 } });
+		await submit(t.db, kai, assignmentId, take, null, ORIGIN);
+		const e = await updateDrill(t.db, tomas.id, drillId, {
+			mappingId,
+			document: { ...drillDoc, windowMs: 50, targets: drillDoc.targets.slice(1) }
+		}).catch((x: unknown) => x);
+		expect(e).toBeInstanceOf(Refusal);
+		expect((e as Refusal).status).toBe(409);
+		expect((e as Refusal).message).toBe(HAS_HAND_INS);
+		expect(HAS_HAND_INS).toBe('This drill has hand-ins; duplicate it to change it.');
+		await refused(
+			updateDrill(t.db, tomas.id, drillId, { mappingId, document: { ...drillDoc, windowMs: 50, pass: { hitRate: 0.5 } } }),
+			409
+		);
+		const doc = (await getMapping(t.db, tomas.id, mappingId)).document;
+		await saveVersion(t.db, tomas.id, mappingId, doc);
+		await refused(
+			updateDrill(t.db, tomas.id, drillId, { mappingId, mappingVersion: 2, document: { ...drillDoc, windowMs: 50 } }),
+			409
+		);
+		// Saving it unchanged keeps it on its version even though the mapping has a newer one.
+		await updateDrill(t.db, tomas.id, drillId, { mappingId, document: { ...drillDoc, name: 'Four, renamed', windowMs: 50 } });
+		const d = await drillFor(t.db, tomas.id, drillId);
+		expect([d.document.name, d.document.targets.length, d.mappingVersion]).toEqual(['Four, renamed', 4, 1]);
+		// A copy changes freely.
+		const copy = await duplicateDrill(t.db, tomas.id, drillId);
+		expect((await ownDrill(t.db, tomas.id, copy)).name).toBe('Four, renamed (copy)');
+		await updateDrill(t.db, tomas.id, copy, { mappingId, mappingVersion: 2, document: { ...drillDoc, lengthBars: 2 } });
+		expect((await drillFor(t.db, tomas.id, copy)).mappingVersion).toBe(2);
+		await refused(duplicateDrill(t.db, kai.id, drillId), 404);
+	});
+
+	it('the review breakdown always equals the score stored at hand-in', async () => {
+		const { tomas, kai, mappingId, drillId, assignmentId, take, score } = await assigned();
+		// The teacher moves beat 2's target to 2.5 after Kai's take (his press at 3010 ms no longer
+		// hits 3250 ms): the hand-in is scored on the drill as it stands, 2 hits instead of 3.
+		const moved = {
+			...drillDoc,
+			targets: drillDoc.targets.map((x) => (x.beat === 2 ? { ...x, beat: 2.5 } : x))
+		};
+		await updateDrill(t.db, tomas.id, drillId, { mappingId, document: moved });
+		const sub = await submit(t.db, kai, assignmentId, take, null, ORIGIN);
+		expect(score.hits).toBe(3);
+		expect((await submissionFor(t.db, tomas.id, sub.id)).score.hits).toBe(2);
+		let { detail, stored: kept } = await summaryOf(tomas.id, sub.id);
+		expect(detail).toEqual(kept);
+		// Even if the drill row changed underneath (an old hand-in, a change made outside the app),
+		// the breakdown is worked out against what the stored score was counted against.
+		await t.db
+			.update(drillTable)
+			.set({ document: { ...moved, windowMs: 1 } })
+			.where(eq(drillTable.id, drillId));
+		({ detail, stored: kept } = await summaryOf(kai.id, sub.id));
+		expect(detail).toEqual(kept);
+		expect(detail.hits).toBe(2);
+	});
+});
+
+describe('the mapping version a drill is played on', () => {
+	it('is the one the teacher chose, kept on save, and must be a version of that mapping they may read', async () => {
+		const { tomas, mappingId } = await scene();
+		const doc = (await getMapping(t.db, tomas.id, mappingId)).document;
+		await saveVersion(t.db, tomas.id, mappingId, doc);
+		const onV1 = await createDrill(t.db, tomas.id, { mappingId, mappingVersion: 1, document: drillDoc });
+		expect((await drillFor(t.db, tomas.id, onV1)).mappingVersion).toBe(1);
+		const newest = await createDrill(t.db, tomas.id, { mappingId, document: drillDoc });
+		expect((await drillFor(t.db, tomas.id, newest)).mappingVersion).toBe(2);
+		await updateDrill(t.db, tomas.id, onV1, { mappingId, document: { ...drillDoc, tempo: 100 } });
+		expect((await drillFor(t.db, tomas.id, onV1)).mappingVersion).toBe(1);
+		await updateDrill(t.db, tomas.id, onV1, { mappingId, mappingVersion: 2, document: drillDoc });
+		expect((await drillFor(t.db, tomas.id, onV1)).mappingVersion).toBe(2);
+		await refused(createDrill(t.db, tomas.id, { mappingId, mappingVersion: 7, document: drillDoc }), 404);
+		// Another teacher's private mapping, version 1: not readable, so not found.
+		const ines = who('ines@mixlab.example');
+		const theirs = await createMapping(t.db, ines.id, { document: doc, name: 'Private set' });
+		await refused(createDrill(t.db, tomas.id, { mappingId: theirs, mappingVersion: 1, document: drillDoc }), 404);
 	});
 });

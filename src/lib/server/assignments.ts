@@ -2,18 +2,30 @@
 // scored takes of it, plus an optional audio file) and the teacher's review. Privacy: a student
 // reaches only their own submissions; a teacher reaches a student's session only through a
 // submission to a class they teach. Everyone else is told "not found".
-import type { ScoreSummary } from '$lib/engine';
+import { parseDrill, scoreSummary, type DrillDocument, type ScoreSummary } from '$lib/engine';
 import type { GradebookRow } from '$lib/teaching';
 import { and, asc, desc, eq, inArray } from 'drizzle-orm';
 import { randomUUID } from 'node:crypto';
 import { z } from 'zod';
 import { classFor, shareMapping, taughtClass, type Person } from './classes';
 import type { Database } from './db';
-import { assignment, classMember, drill, drillTake, rehearsal, schoolClass, submission, user } from './db/schema';
-import { ownDrill } from './drills';
+import {
+	assignment,
+	classMember,
+	drill,
+	drillTake,
+	mappingVersion,
+	rehearsal,
+	schoolClass,
+	submission,
+	user
+} from './db/schema';
+import { drillBasis, ownDrill, scoreTake } from './drills';
 import { Refusal } from './http';
 import { sendMail } from './mail';
 import { assignmentMail, feedbackMail, submissionMail } from './mail-messages';
+import { storedDocument } from './mappings';
+import { getRehearsal, sessionDocument } from './rehearsals';
 
 export const NO_SUBMISSION = 'That submission does not exist, or it is not yours to see.';
 
@@ -134,7 +146,12 @@ export async function assignmentFor(db: Database, userId: string, id: string) {
 	return { ...row.a, drill: row.d, className: c.name, teacher: c.teacher, teacherId: c.teacherId, role: c.role };
 }
 
-/** Hands in one of the student's scored takes of the assignment's drill; a new one replaces an ungraded one. */
+/**
+ * Hands in one of the student's scored takes of the assignment's drill; a new one replaces an
+ * ungraded one. The take is scored again against the drill as it stands (it may have changed since
+ * the take), and the submission keeps what its score was counted against: beat 0, the drill
+ * document and the mapping version. Once a drill has hand-ins it no longer changes (updateDrill).
+ */
 export async function submit(
 	db: Database,
 	student: Person,
@@ -159,13 +176,24 @@ export async function submit(
 		.where(and(eq(submission.assignmentId, assignmentId), eq(submission.studentId, student.id)));
 	if (existing?.gradedAt) throw new Refusal(409, 'Your teacher has graded this assignment already; it is closed.');
 	const late = now.getTime() > a.dueAt.getTime();
+	const basis = await drillBasis(db, a.drill);
+	const { session } = await sessionDocument(db, student.id, rehearsalId);
+	const score = scoreSummary(scoreTake(basis.document, basis.mapping, session, take.take.zero));
+	if (JSON.stringify(score) !== JSON.stringify(take.take.score))
+		await db
+			.update(drillTake)
+			.set({ score, hitRate: score.hitRate, pass: score.pass })
+			.where(eq(drillTake.rehearsalId, rehearsalId));
 	const values = {
 		rehearsalId,
 		submittedAt: now,
 		late,
-		score: take.take.score,
-		hitRate: take.take.hitRate,
-		pass: take.take.pass,
+		score,
+		hitRate: score.hitRate,
+		pass: score.pass,
+		zero: take.take.zero,
+		drillDocument: basis.document,
+		mappingVersionId: basis.mappingVersionId,
 		audioFile: audio?.file ?? null,
 		audioType: audio?.type ?? null
 	};
@@ -208,6 +236,31 @@ export async function submissionFor(db: Database, userId: string, id: string) {
 		student: { id: row.student.id, name: row.student.name, email: row.student.email },
 		role: role as 'teacher' | 'student'
 	};
+}
+
+/**
+ * The submission's score worked out target by target, against what its stored score was counted
+ * against (beat 0, drill document, mapping version), so it always agrees with the stored score.
+ * Hand-ins from before that was kept fall back to the take's beat 0 and the drill as it stands.
+ */
+export async function submissionBreakdown(db: Database, userId: string, id: string) {
+	const s = await submissionFor(db, userId, id);
+	// Access was granted through the submission: read the session as its owner would.
+	const { row, session } = await getRehearsal(db, s.studentId, s.rehearsalId);
+	const parsed = parseDrill(s.drillDocument ?? s.drill.document);
+	const drillDoc: DrillDocument | null = parsed.ok ? parsed.drill : null;
+	const [v] = await db
+		.select()
+		.from(mappingVersion)
+		.where(eq(mappingVersion.id, s.mappingVersionId ?? s.drill.mappingVersionId));
+	const mapping = v ? storedDocument(v.document) : null;
+	let zero = s.zero;
+	if (zero === null) {
+		const [take] = await db.select().from(drillTake).where(eq(drillTake.rehearsalId, s.rehearsalId));
+		zero = take?.zero ?? 0;
+	}
+	const detail = drillDoc && mapping ? scoreTake(drillDoc, mapping, session, zero) : null;
+	return { submission: s, row, session, drill: drillDoc, mapping, zero, detail };
 }
 
 export async function review(

@@ -171,12 +171,17 @@ export async function drillFor(db: Database, userId: string, id: string) {
 	const [row] = await db.select().from(drill).where(eq(drill.id, id));
 	if (!row || !(await mayPlay(db, userId, row)))
 		throw new Refusal(404, 'That drill does not exist, or it is not given to you.');
+	return { row, ...(await drillBasis(db, row)) };
+}
+
+/** What a take of the drill is scored against: its document and the mapping version it is played on. */
+export async function drillBasis(db: Database, row: DrillRow) {
 	const [v] = await db.select().from(mappingVersion).where(eq(mappingVersion.id, row.mappingVersionId));
 	return {
-		row,
 		document: parseDrill(row.document).ok ? (row.document as DrillDocument) : checkStored(row.document),
 		mapping: storedDocument(v.document),
-		mappingVersion: v.version
+		mappingVersion: v.version,
+		mappingVersionId: v.id
 	};
 }
 
