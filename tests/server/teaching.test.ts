@@ -16,6 +16,7 @@ import {
 	classFor,
 	createClass,
 	inviteByEmail,
+	joinAfterSignIn,
 	joinByCode,
 	removeMember,
 	roster,
@@ -131,6 +132,19 @@ describe('classes', () => {
 		expect(await acceptInvitation(t.db, kai, link![1])).toBe(classId);
 		expect((await classFor(t.db, kai.id, classId)).role).toBe('student');
 		expect((await roster(t.db, classId)).map((p) => p.email)).toEqual([kai.email]);
+	});
+
+	it('signing up or in from the invitation link joins at once, for the invited address only', async () => {
+		const { kai, classId } = await scene();
+		const token = (await readOutbox())[0].body.match(/\/join\/([\w-]+)/)![1];
+		const lena = who('lena@mixlab.example');
+		// Someone else signing in from the link: no class joined, the invitation page explains.
+		expect(await joinAfterSignIn(t.db, lena, `/join/${token}`)).toBe(`/join/${token}`);
+		await refused(classFor(t.db, lena.id, classId), 404);
+		expect(await joinAfterSignIn(t.db, kai, '/home')).toBe('/home');
+		expect(await joinAfterSignIn(t.db, kai, `/join/${token}`)).toBe(`/classes/${classId}?joined=1`);
+		expect((await classFor(t.db, kai.id, classId)).role).toBe('student');
+		expect(await joinAfterSignIn(t.db, lena, '/join/not-a-real-token-at-all')).toBe('/join/not-a-real-token-at-all');
 	});
 
 	it('an invitation works only for the invited address, and only once', async () => {
@@ -384,7 +398,7 @@ describe('a take scores the same in the app and on the command line', () => {
 			file('session.json', session),
 			'--json'
 		]);
-		return { ...(JSON.parse(r.out) as Record<string, unknown>), zero: session.clock.zero };
+		return { ...(JSON.parse(r.out) as Record<string, unknown>), zero: session.clock.zero } as Record<string, unknown>;
 	}
 
 	it('a practice take: its session document carries the drill\'s beat 0 as its clock zero', async () => {

@@ -1,4 +1,12 @@
-import { classesOf, deleteDrill, drillFor, ownDrill, updateDrill } from '$lib/server/drills';
+import {
+	classesOf,
+	deleteDrill,
+	drillFor,
+	duplicateDrill,
+	hasHandIns,
+	ownDrill,
+	updateDrill
+} from '$lib/server/drills';
 import { db } from '$lib/server/db';
 import { editorMappings } from '$lib/server/drill-editor';
 import { pageRefusal, Refusal } from '$lib/server/http';
@@ -11,9 +19,19 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 	const user = requireArea(locals, 'teaching');
 	const row = await ownDrill(db, user.id, params.id).catch(pageRefusal);
 	const d = await drillFor(db, user.id, row.id).catch(pageRefusal);
-	const [mappings, classes] = await Promise.all([editorMappings(db, user.id), classesOf(db, user.id)]);
+	const [mappings, classes, locked] = await Promise.all([
+		editorMappings(db, user.id),
+		classesOf(db, user.id),
+		hasHandIns(db, row.id)
+	]);
 	return {
-		drill: { id: row.id, mappingId: row.mappingId, document: d.document, mappingVersion: d.mappingVersion },
+		drill: {
+			id: row.id,
+			mappingId: row.mappingId,
+			document: d.document,
+			mappingVersion: d.mappingVersion,
+			locked
+		},
 		mappings,
 		classes,
 		saved: url.searchParams.has('saved')
@@ -32,6 +50,11 @@ export const actions: Actions = {
 			if (e instanceof Refusal) return fail(e.status, { message: e.message });
 			throw e;
 		}
+	},
+	duplicate: async ({ locals, params }) => {
+		const user = requireArea(locals, 'teaching');
+		const id = await duplicateDrill(db, user.id, params.id).catch(pageRefusal);
+		redirect(303, `/drills/${id}`);
 	},
 	delete: async ({ locals, params }) => {
 		const user = requireArea(locals, 'teaching');
