@@ -48,7 +48,9 @@ describe('DrillEditor', () => {
 		for (let k = 1; k < MAX_DRILL_BARS / 16; k++) await fireEvent.click(later);
 		expect(screen.getByTestId('grid-pages')).toHaveTextContent(`Bars ${MAX_DRILL_BARS - 15}–${MAX_DRILL_BARS} of`);
 		expect(later).toBeDisabled();
-		expect(screen.getByRole('button', { name: `Pad 1 at beat ${(MAX_DRILL_BARS - 1) * 4 + 1}, 1 beats long` })).toBeTruthy();
+		expect(
+			screen.getByRole('button', { name: `Pad 1 at beat ${(MAX_DRILL_BARS - 1) * 4 + 1}, 1 beats long` })
+		).toBeTruthy();
 		expect(screen.getByTestId('drill-summary')).toHaveTextContent(`2 target presses over ${MAX_DRILL_BARS} bars`);
 	});
 });

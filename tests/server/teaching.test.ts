@@ -401,7 +401,7 @@ describe('a take scores the same in the app and on the command line', () => {
 		return { ...(JSON.parse(r.out) as Record<string, unknown>), zero: session.clock.zero } as Record<string, unknown>;
 	}
 
-	it('a practice take: its session document carries the drill\'s beat 0 as its clock zero', async () => {
+	it("a practice take: its session document carries the drill's beat 0 as its clock zero", async () => {
 		const { kai, classId, tomas, mappingId, drillId } = await scene();
 		await acceptInvitation(t.db, kai, (await readOutbox())[0].body.match(/\/join\/([\w-]+)/)![1]);
 		await createAssignment(t.db, tomas, classId, { drillId, dueAt: new Date(Date.now() + 1e7) }, ORIGIN);
@@ -477,7 +477,10 @@ describe('a drill with hand-ins', () => {
 		expect((e as Refusal).message).toBe(HAS_HAND_INS);
 		expect(HAS_HAND_INS).toBe('This drill has hand-ins; duplicate it to change it.');
 		await refused(
-			updateDrill(t.db, tomas.id, drillId, { mappingId, document: { ...drillDoc, windowMs: 50, pass: { hitRate: 0.5 } } }),
+			updateDrill(t.db, tomas.id, drillId, {
+				mappingId,
+				document: { ...drillDoc, windowMs: 50, pass: { hitRate: 0.5 } }
+			}),
 			409
 		);
 		const doc = (await getMapping(t.db, tomas.id, mappingId)).document;
@@ -487,7 +490,10 @@ describe('a drill with hand-ins', () => {
 			409
 		);
 		// Saving it unchanged keeps it on its version even though the mapping has a newer one.
-		await updateDrill(t.db, tomas.id, drillId, { mappingId, document: { ...drillDoc, name: 'Four, renamed', windowMs: 50 } });
+		await updateDrill(t.db, tomas.id, drillId, {
+			mappingId,
+			document: { ...drillDoc, name: 'Four, renamed', windowMs: 50 }
+		});
 		const d = await drillFor(t.db, tomas.id, drillId);
 		expect([d.document.name, d.document.targets.length, d.mappingVersion]).toEqual(['Four, renamed', 4, 1]);
 		// A copy changes freely.

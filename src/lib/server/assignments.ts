@@ -338,10 +338,7 @@ export async function gradebook(db: Database, teacherId: string, classId: string
 	const memberIds = new Set(members.map((m) => m.id));
 	const formerIds = [...new Set(subs.map((s) => s.studentId))].filter((id) => !memberIds.has(id));
 	const former = formerIds.length
-		? await db
-				.select({ id: user.id, name: user.name, email: user.email })
-				.from(user)
-				.where(inArray(user.id, formerIds))
+		? await db.select({ id: user.id, name: user.name, email: user.email }).from(user).where(inArray(user.id, formerIds))
 		: [];
 	const people = [...members.map((p) => ({ ...p, left: false })), ...former.map((p) => ({ ...p, left: true }))].sort(
 		(a, b) => (a.name < b.name ? -1 : a.name > b.name ? 1 : a.email < b.email ? -1 : 1)

@@ -103,8 +103,7 @@ export async function updateDrill(db: Database, ownerId: string, id: string, inp
 	const m = await getMapping(db, ownerId, input.mappingId, version);
 	const document = checkDrill(input.document, m.document);
 	const before = parseDrill(row.document);
-	const changed =
-		m.versionId !== row.mappingVersionId || !before.ok || scored(before.drill) !== scored(document);
+	const changed = m.versionId !== row.mappingVersionId || !before.ok || scored(before.drill) !== scored(document);
 	if (changed && (await hasHandIns(db, id))) throw new Refusal(409, HAS_HAND_INS);
 	await db
 		.update(drill)

@@ -33,7 +33,10 @@ export const actions: Actions = {
 		if (refused) return fail(429, { ...values, errors: {} as FieldErrors, message: refused });
 		let who;
 		try {
-			({ user: who } = await auth.api.signUpEmail({ body: { name, email: address, password: secret }, headers: request.headers }));
+			({ user: who } = await auth.api.signUpEmail({
+				body: { name, email: address, password: secret },
+				headers: request.headers
+			}));
 		} catch (e) {
 			if (e instanceof APIError) {
 				if (authCode(e).startsWith('USER_ALREADY_EXISTS')) {

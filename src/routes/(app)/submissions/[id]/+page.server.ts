@@ -11,11 +11,15 @@ import type { Actions, PageServerLoad } from './$types';
 export const load: PageServerLoad = async ({ locals, params }) => {
 	const user = requireArea(locals, 'app');
 	// Worked out against what the stored score was counted against, so the two always agree.
-	const { submission: s, row, session, drill, mapping, zero, detail } = await submissionBreakdown(
-		db,
-		user.id,
-		params.id
-	).catch(pageRefusal);
+	const {
+		submission: s,
+		row,
+		session,
+		drill,
+		mapping,
+		zero,
+		detail
+	} = await submissionBreakdown(db, user.id, params.id).catch(pageRefusal);
 	return {
 		submission: {
 			id: s.id,
