@@ -612,6 +612,13 @@ const ROUTES: Row[] = [
 		expect: classTeacherPage(200)
 	},
 	{
+		name: 'duplicate a drill (form)',
+		method: 'POST',
+		path: (f) => `/drills/${f.drill}?/duplicate`,
+		body: () => ({ form: {} }),
+		expect: classTeacherPage(303) // the author goes to the copy
+	},
+	{
 		name: 'delete a drill (form)',
 		method: 'POST',
 		path: (_f, fresh) => `/drills/${fresh}?/delete`,

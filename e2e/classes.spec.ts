@@ -1,6 +1,6 @@
 // A class from start to finish in Chromium: the teacher creates a class and a drill and gives it
 // to the class, invites a student by e-mail (read from the local outbox), the student follows the
-// link, signs up, joins, practises with a fake MIDI controller and hands in the take; the teacher
+// link and signs up (which joins them), practises with a fake MIDI controller and hands in the take; the teacher
 // sees the score and grades it; the student reads the grade; the gradebook CSV holds the row.
 // Then people outside the class are kept out of its pages, API routes and downloads.
 import { expect, test, type Browser, type Page } from '@playwright/test';
@@ -57,6 +57,7 @@ test('teacher, student and gradebook: a drill from class creation to a graded, e
 	await open(teacher, '/drills/new');
 	await teacher.getByLabel('Name').fill('Steady pad one');
 	await teacher.getByLabel('Played on').selectOption({ label: 'Two-deck pad set (v1)' });
+	await expect(teacher.getByLabel('Mapping version')).toHaveValue('1'); // the newest, listed with its date
 	await teacher.getByLabel('Tempo (BPM)').fill('100');
 	await teacher.getByLabel('Length (bars)').fill('1');
 	await teacher.getByLabel('Timing window (± ms)').fill('40');
@@ -108,9 +109,9 @@ test('teacher, student and gradebook: a drill from class creation to a graded, e
 	await page.getByLabel('Password', { exact: true }).fill(student.password);
 	await page.getByLabel('Repeat password').fill(student.password);
 	await page.getByRole('button', { name: 'Create account' }).click();
-	await expect(page.getByRole('button', { name: 'Join the class' })).toBeVisible();
-	await page.getByRole('button', { name: 'Join the class' }).click();
+	// Signed up from the link sent to this address: in the class at once, and told so.
 	await expect(page.getByTestId('class-name')).toHaveText('Thursday pad crew');
+	await expect(page.getByTestId('joined-notice')).toHaveText('You joined “Thursday pad crew”.');
 	await expect(page.getByTestId('due-list')).toContainText('Steady pad one');
 	await shot(page, 'class-student');
 
@@ -178,6 +179,14 @@ test('teacher, student and gradebook: a drill from class creation to a graded, e
 	await teacher.getByRole('button', { name: 'Save grade and comment' }).click();
 	await expect(teacher.getByRole('status').filter({ hasText: 'Grade and comment saved' })).toBeVisible();
 	await shot(teacher, 'submission-teacher');
+	// The drill now has a hand-in: what is scored no longer changes; a copy can be made instead.
+	await open(teacher, drillUrl);
+	await expect(teacher.getByText('This drill has hand-ins; duplicate it to change it.')).toBeVisible();
+	await teacher.getByLabel('Length (bars)').fill('2');
+	await teacher.getByRole('button', { name: 'Save drill' }).click();
+	await expect(teacher.getByRole('alert')).toHaveText('This drill has hand-ins; duplicate it to change it.');
+	await teacher.getByRole('button', { name: 'Duplicate' }).click();
+	await expect(teacher.getByRole('heading', { name: 'Steady pad one (copy)' })).toBeVisible();
 	// The full replay opens for the teacher through the submission.
 	await open(teacher, `/sessions/${sessionId}?submission=${submissionUrl.split('/').pop()}`);
 	await expect(teacher.getByTestId('replay-page')).toBeVisible();

@@ -14,4 +14,6 @@ export interface GradebookRow {
 	grade: string | null;
 	comment: string | null;
 	submissionId: string | null;
+	/** The student left the class (or was removed); their hand-ins stay in the gradebook. */
+	left: boolean;
 }

@@ -1,7 +1,7 @@
 import { afterEach, describe, expect, it } from 'vitest';
 import { analyze, demoMapping, type InputEvent, type Mapping } from '$lib/engine';
 import type { RecorderStatus } from '$lib/recorder/session-recorder.svelte';
-import { RehearsalRoom, type RoomRecorder } from '$lib/rehearse/rehearsal-room.svelte';
+import { RehearsalRoom, type RecorderHooks, type RoomRecorder } from '$lib/rehearse/rehearsal-room.svelte';
 
 // Demo mappings (src/lib/engine/demo.ts): pad-1 = Echo A on rack 1; pad-13..16 the stutter row on
 // rack 2, deck A. The broken row switches rack 2 off on any release; the two-deck set counts `held`.
@@ -168,5 +168,43 @@ describe('RehearsalRoom', () => {
 		expect(room.tempo).toBe(200);
 		room.setTempo(97.6);
 		expect(room.clock.tempo).toBe(98);
+	});
+
+	it("puts the take's beat clock zero on a drill's beat 0, and sends that clock when the take ends", async () => {
+		now = 1000;
+		let sent: ReturnType<RecorderHooks['clock']> | null = null;
+		let started: ReturnType<RecorderHooks['snapshot']>;
+		const room = new RehearsalRoom({
+			mappingId: 'm1',
+			mapping: demoMapping('two-deck'),
+			now: () => now,
+			recorder: (hooks) => {
+				const r = new FakeRecorder();
+				const start = r.start;
+				r.start = async (name) => {
+					started = hooks.snapshot();
+					await start(name);
+				};
+				r.stop = async () => {
+					sent = hooks.clock();
+					r.status = 'saved';
+					return { id: 's1', findings: 0 };
+				};
+				return r;
+			}
+		});
+		rooms.push(room);
+		await room.start();
+		room.setTempo(120);
+		room.countInOn = false;
+		now = 1000 + 5_250; // room time 5250: the take starts between beats
+		room.record('Drill try');
+		await Promise.resolve();
+		expect(started!.clock.zero).toBe(-5_250); // the room's beat 0, long before the take
+		// Beat 0 of the drill at room time 7500 (beat 15 of the room's clock at 120 BPM).
+		expect(room.anchorTake(room.clock.timeOfBeat(15))).toBe(2_250);
+		now = 1000 + 9_000;
+		await room.stopRecording('Drill try');
+		expect(sent).toEqual({ zero: 2_250, tempos: [{ at: 2_250, bpm: 120 }] });
 	});
 });

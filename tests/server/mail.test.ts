@@ -2,7 +2,7 @@
 // the test, Padproof sends to it through SMTP_URL, and `mailparser` reads the message back.
 // Without SMTP_URL the same message lands in the local outbox, decoded the same way.
 import { simpleParser, type ParsedMail } from 'mailparser';
-import { mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
+import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
 import type { AddressInfo } from 'node:net';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -96,5 +96,12 @@ describe('mail', () => {
 			expect(m.text).toContain(url);
 			expect(m.html).toContain(`href="${url}"`);
 		}
+	});
+
+	it('reads an outbox that does not exist yet as empty (nothing has been sent)', async () => {
+		const missing = join(outbox, 'not-made-yet');
+		process.env.MAIL_OUTBOX_DIR = missing;
+		expect(await readOutbox()).toEqual([]);
+		expect(existsSync(missing)).toBe(false);
 	});
 });

@@ -66,7 +66,7 @@ describe('PUT /api/mappings/[id]', () => {
 		const first = { ...demoMapping('two-deck'), name: 'Kai route set 3', tempo: 127 };
 		const saved = await put(id, { document: first, baseVersion: 1 });
 		expect(saved.status).toBe(200);
-		expect(await saved.json()).toEqual({ version: 2 });
+		expect(await saved.json()).toEqual({ version: 2, notes: [] }); // a version 2 document brings no upgrade notes;
 		const late = await put(id, { document: { ...first, tempo: 90 }, baseVersion: 1 });
 		expect(late.status).toBe(409);
 		const body = await late.json();

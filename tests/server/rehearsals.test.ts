@@ -112,7 +112,7 @@ describe('recording a session in chunks', () => {
 			const { id } = await createRehearsal(t.db, t.kai, { mappingId, tempo: 120 });
 			await appendChunk(t.db, t.kai, id, { seq: 0, events: [press(1010, 1), release(1100, 1)] });
 			// A later version of the mapping acts at once; the session keeps the version it was played with.
-			await saveVersion(t.db, t.kai, mappingId, base);
+			await saveVersion(t.db, t.kai, mappingId, base, 1);
 			await finishRehearsal(t.db, t.kai, id, 'Late landing');
 			const [row] = await listRehearsals(t.db, t.kai, 'late landing');
 			const { session, mapping } = await getRehearsal(t.db, t.kai, id);

@@ -55,6 +55,7 @@ export {
 	matchDrill,
 	BEATS_PER_BAR,
 	MAX_TARGETS,
+	MAX_DRILL_BARS,
 	type DrillDocument,
 	type DrillTarget,
 	type Score,

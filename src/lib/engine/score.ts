@@ -21,6 +21,8 @@ import type { Finding, InputEvent, Mapping, SessionDocument } from './types';
 /** Beats per bar: drills are written in four-four time (common practice for dance music). */
 export const BEATS_PER_BAR = 4;
 export const MAX_TARGETS = 20_000;
+/** The longest drill, in bars: the drill schema and the drill editor both hold to it. */
+export const MAX_DRILL_BARS = 1024;
 
 export const drillTargetSchema = z.object({
 	input: z.string().trim().min(1, 'names no pad').max(64),
@@ -37,7 +39,11 @@ export const drillSchema = z
 		name: z.string().trim().min(1, 'needs a name').max(120),
 		tempo: z.number().min(40, 'must be at least 40 BPM').max(300, 'must be at most 300 BPM'),
 		countInBars: z.number().int().min(0).max(8),
-		lengthBars: z.number().int().min(1, 'must be at least 1 bar').max(1024),
+		lengthBars: z
+			.number()
+			.int()
+			.min(1, 'must be at least 1 bar')
+			.max(MAX_DRILL_BARS, `must be at most ${MAX_DRILL_BARS} bars`),
 		windowMs: z.number().min(1).max(500).default(60),
 		targets: z.array(drillTargetSchema).min(1, 'needs at least one target press').max(MAX_TARGETS),
 		pass: z

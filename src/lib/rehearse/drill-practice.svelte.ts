@@ -1,6 +1,7 @@
 // Practice mode: one try at a drill in the rehearsal room. The room's own recorder records the
 // try from the start of the count-in; beat 0 of the drill is put on a beat line of the room's
-// clock after the count-in bars, so the metronome, the quantize grid and the drill agree. When
+// clock after the count-in bars, so the metronome, the quantize grid and the drill agree, and the
+// take's beat clock has its zero there. When
 // the drill's bars are over the recording stops, the server scores it (the engine's scoring)
 // and the score is shown. Times here are ms relative to beat 0 (negative during the count-in).
 import { BEATS_PER_BAR, type DrillDocument, type ScoreSummary } from '$lib/engine';
@@ -73,7 +74,10 @@ export class DrillPractice {
 		const first = Math.ceil(this.room.clock.beatAt(nowRoom) + 0.5);
 		const zeroBeat = first + countInBeats;
 		this.#zeroRoom = this.room.clock.timeOfBeat(zeroBeat);
-		this.#zeroRecording = this.room.recorder.elapsed() + (this.#zeroRoom - nowRoom);
+		// The take's beat clock starts at the drill's beat 0: the saved session then scores the same
+		// wherever it is scored (the app, an exported file on the command line).
+		this.#zeroRecording =
+			this.room.anchorTake(this.#zeroRoom) ?? this.room.recorder.elapsed() + (this.#zeroRoom - nowRoom);
 		this.zeroAt = performance.now() + (this.#zeroRoom - nowRoom);
 		this.room.sound.countIn(first, zeroBeat);
 		this.status = countInBeats > 0 ? 'counting' : 'playing';

@@ -11,6 +11,7 @@ import {
 	withTempo,
 	type InputEvent,
 	type SessionClock,
+	type SessionStart,
 	type Mapping,
 	type RigChangesEmitted,
 	type RigState,
@@ -54,8 +55,15 @@ export interface RoomOptions {
 	mapping: Mapping;
 	/** The performance clock (ms); MIDI, pointer and key timestamps are on it. */
 	now?: () => number;
-	recorder?: RoomRecorder;
+	/** A recorder, or one made with the room's hooks (the take's start and beat clock). */
+	recorder?: RoomRecorder | ((hooks: RecorderHooks) => RoomRecorder);
 	controllers?: ControllerRig;
+}
+
+export interface RecorderHooks {
+	tempo: () => number;
+	snapshot: () => { clock: SessionClock; initial: SessionStart } | undefined;
+	clock: () => SessionClock | undefined;
 }
 
 type Recordable = { midi?: number[]; input: SessionEvent['input']; t: number };
@@ -100,14 +108,13 @@ export class RehearsalRoom {
 		this.clock = new RoomClock(this.tempo, 0);
 		this.state = initialRigState(mapping);
 		this.controllers = controllers ?? new ControllerRig(mapping.profile);
+		const hooks: RecorderHooks = {
+			tempo: () => this.clock.tempo,
+			snapshot: () => this.#takeStart(),
+			clock: () => this.#take?.clock
+		};
 		this.recorder =
-			recorder ??
-			new SessionRecorder({
-				mappingId,
-				tempo: () => this.clock.tempo,
-				snapshot: () => this.#takeStart(),
-				clock: () => this.#take?.clock
-			});
+			typeof recorder === 'function' ? recorder(hooks) : (recorder ?? new SessionRecorder({ mappingId, ...hooks }));
 		this.findings = new LiveFindings(mapping);
 		this.sound = new RoomSound(this.clock, () => this.roomNow());
 	}
@@ -186,6 +193,21 @@ export class RehearsalRoom {
 			},
 			mappingReach(this.mapping)
 		);
+	}
+
+	/**
+	 * Puts beat 0 of the rig's beat clock and of the take's clock at room time `zeroRoom` (a beat
+	 * line of the room's clock, so every grid line after it stays where it was), at the current
+	 * tempo. A drill's practice run puts it on the drill's beat 0, so the session document says
+	 * where beat 0 is (DESIGN.md §4.8). Answers that time on the take's clock, or null when no
+	 * take is being recorded.
+	 */
+	anchorTake(zeroRoom: number): number | null {
+		if (!this.#take) return null;
+		const zero = Math.round((zeroRoom - this.#take.start) * 1000) / 1000;
+		this.#take.clock = { zero, tempos: [{ at: zero, bpm: this.clock.tempo }] };
+		this.#actor?.send({ type: 'tempo', bpm: this.clock.tempo, origin: zeroRoom });
+		return zero;
 	}
 
 	/** Starts recording, after a one-bar count-in when that is on. */

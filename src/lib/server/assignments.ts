@@ -2,7 +2,7 @@
 // scored takes of it, plus an optional audio file) and the teacher's review. Privacy: a student
 // reaches only their own submissions; a teacher reaches a student's session only through a
 // submission to a class they teach. Everyone else is told "not found".
-import type { ScoreSummary } from '$lib/engine';
+import { parseDrill, scoreSummary, type DrillDocument, type ScoreSummary } from '$lib/engine';
 import type { GradebookRow } from '$lib/teaching';
 import { and, asc, count, desc, eq, inArray } from 'drizzle-orm';
 import { randomUUID } from 'node:crypto';
@@ -10,11 +10,23 @@ import { z } from 'zod';
 import { classFor, shareMapping, taughtClass, type Person } from './classes';
 import { removeAssignments, removeFiles } from './cleanup';
 import { writeTransaction, type Database } from './db';
-import { assignment, classMember, drill, drillTake, rehearsal, schoolClass, submission, user } from './db/schema';
-import { ownDrill } from './drills';
+import {
+	assignment,
+	classMember,
+	drill,
+	drillTake,
+	mappingVersion,
+	rehearsal,
+	schoolClass,
+	submission,
+	user
+} from './db/schema';
+import { drillBasis, ownDrill, scoreTake } from './drills';
 import { Refusal } from './http';
 import { sendMail } from './mail';
 import { assignmentMail, feedbackMail, submissionMail } from './mail-messages';
+import { storedDocument } from './mappings';
+import { getRehearsal, sessionDocument } from './rehearsals';
 
 export const NO_SUBMISSION = 'That submission does not exist, or it is not yours to see.';
 
@@ -160,7 +172,12 @@ export async function assignmentFor(db: Database, userId: string, id: string) {
 	return { ...row.a, drill: row.d, className: c.name, teacher: c.teacher, teacherId: c.teacherId, role: c.role };
 }
 
-/** Hands in one of the student's scored takes of the assignment's drill; a new one replaces an ungraded one. */
+/**
+ * Hands in one of the student's scored takes of the assignment's drill; a new one replaces an
+ * ungraded one. The take is scored again against the drill as it stands (it may have changed since
+ * the take), and the submission keeps what its score was counted against: beat 0, the drill
+ * document and the mapping version. Once a drill has hand-ins it no longer changes (updateDrill).
+ */
 export async function submit(
 	db: Database,
 	student: Person,
@@ -186,13 +203,24 @@ export async function submit(
 		.where(and(eq(submission.assignmentId, assignmentId), eq(submission.studentId, student.id)));
 	if (existing?.gradedAt) throw new Refusal(409, 'Your teacher has graded this assignment already; it is closed.');
 	const late = now.getTime() > a.dueAt.getTime();
+	const basis = await drillBasis(db, a.drill);
+	const { session } = await sessionDocument(db, student.id, rehearsalId);
+	const score = scoreSummary(scoreTake(basis.document, basis.mapping, session, take.take.zero));
+	if (JSON.stringify(score) !== JSON.stringify(take.take.score))
+		await db
+			.update(drillTake)
+			.set({ score, hitRate: score.hitRate, pass: score.pass })
+			.where(eq(drillTake.rehearsalId, rehearsalId));
 	const values = {
 		rehearsalId,
 		submittedAt: now,
 		late,
-		score: take.take.score,
-		hitRate: take.take.hitRate,
-		pass: take.take.pass,
+		score,
+		hitRate: score.hitRate,
+		pass: score.pass,
+		zero: take.take.zero,
+		drillDocument: basis.document,
+		mappingVersionId: basis.mappingVersionId,
 		audioFile: audio?.file ?? null,
 		audioType: audio?.type ?? null
 	};
@@ -235,6 +263,31 @@ export async function submissionFor(db: Database, userId: string, id: string) {
 		student: { id: row.student.id, name: row.student.name, email: row.student.email },
 		role: role as 'teacher' | 'student'
 	};
+}
+
+/**
+ * The submission's score worked out target by target, against what its stored score was counted
+ * against (beat 0, drill document, mapping version), so it always agrees with the stored score.
+ * Hand-ins from before that was kept fall back to the take's beat 0 and the drill as it stands.
+ */
+export async function submissionBreakdown(db: Database, userId: string, id: string) {
+	const s = await submissionFor(db, userId, id);
+	// Access was granted through the submission: read the session as its owner would.
+	const { row, session } = await getRehearsal(db, s.studentId, s.rehearsalId);
+	const parsed = parseDrill(s.drillDocument ?? s.drill.document);
+	const drillDoc: DrillDocument | null = parsed.ok ? parsed.drill : null;
+	const [v] = await db
+		.select()
+		.from(mappingVersion)
+		.where(eq(mappingVersion.id, s.mappingVersionId ?? s.drill.mappingVersionId));
+	const mapping = v ? storedDocument(v.document) : null;
+	let zero = s.zero;
+	if (zero === null) {
+		const [take] = await db.select().from(drillTake).where(eq(drillTake.rehearsalId, s.rehearsalId));
+		zero = take?.zero ?? 0;
+	}
+	const detail = drillDoc && mapping ? scoreTake(drillDoc, mapping, session, zero) : null;
+	return { submission: s, row, session, drill: drillDoc, mapping, zero, detail };
 }
 
 export async function review(
@@ -283,16 +336,19 @@ export async function assignmentSubmissions(db: Database, assignmentId: string) 
 
 export type { GradebookRow } from '$lib/teaching';
 
-/** One row per student and assignment of a class, submitted or not. Teacher only. */
+/**
+ * One row per student and assignment of a class, submitted or not. Teacher only. Students who
+ * left the class stay, marked `left`, with a row for each assignment, as long as they handed
+ * something in here.
+ */
 export async function gradebook(db: Database, teacherId: string, classId: string): Promise<GradebookRow[]> {
 	await taughtClass(db, teacherId, classId);
-	const [people, tasks] = await Promise.all([
+	const [members, tasks] = await Promise.all([
 		db
 			.select({ id: user.id, name: user.name, email: user.email })
 			.from(classMember)
 			.innerJoin(user, eq(user.id, classMember.userId))
-			.where(eq(classMember.classId, classId))
-			.orderBy(user.name),
+			.where(eq(classMember.classId, classId)),
 		classAssignments(db, classId)
 	]);
 	const subs = tasks.length
@@ -306,6 +362,14 @@ export async function gradebook(db: Database, teacherId: string, classId: string
 					)
 				)
 		: [];
+	const memberIds = new Set(members.map((m) => m.id));
+	const formerIds = [...new Set(subs.map((s) => s.studentId))].filter((id) => !memberIds.has(id));
+	const former = formerIds.length
+		? await db.select({ id: user.id, name: user.name, email: user.email }).from(user).where(inArray(user.id, formerIds))
+		: [];
+	const people = [...members.map((p) => ({ ...p, left: false })), ...former.map((p) => ({ ...p, left: true }))].sort(
+		(a, b) => (a.name < b.name ? -1 : a.name > b.name ? 1 : a.email < b.email ? -1 : 1)
+	);
 	const rows: GradebookRow[] = [];
 	for (const p of people)
 		for (const t of tasks) {
@@ -324,7 +388,8 @@ export async function gradebook(db: Database, teacherId: string, classId: string
 				pass: s ? s.pass : null,
 				grade: s?.grade ?? null,
 				comment: s?.comment ?? null,
-				submissionId: s?.id ?? null
+				submissionId: s?.id ?? null,
+				left: p.left
 			});
 		}
 	return rows;

@@ -212,6 +212,24 @@ export async function acceptInvitation(db: Database, who: Person, token: string)
 	return invite.classId;
 }
 
+/**
+ * Where to go after signing up or in. Coming from an invitation link (`next` is /join/<token>)
+ * sent to this account's address, the person joins the class there and then, and goes to it with
+ * a "you joined" message; any other case keeps `next` (the invitation page then explains).
+ */
+export async function joinAfterSignIn(db: Database, who: Person, next: string): Promise<string> {
+	const token = /^\/join\/([\w-]{10,64})$/.exec(next)?.[1];
+	if (!token) return next;
+	const found = await invitation(db, token);
+	if (!found || found.invite.email.toLowerCase() !== who.email.toLowerCase()) return next;
+	try {
+		return `/classes/${await acceptInvitation(db, who, token)}?joined=1`;
+	} catch (e) {
+		if (e instanceof Refusal) return next;
+		throw e;
+	}
+}
+
 export async function pendingInvites(db: Database, classId: string) {
 	return db
 		.select({ email: classInvite.email, createdAt: classInvite.createdAt })

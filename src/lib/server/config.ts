@@ -39,9 +39,9 @@ export function uploadsDir(): string {
 	return dir;
 }
 
-export function outboxDir(): string {
+export function outboxDir(options: { create?: boolean } = {}): string {
 	const dir = resolve(process.env.MAIL_OUTBOX_DIR ?? `${dataDir()}/outbox`);
-	mkdirSync(dir, { recursive: true });
+	if (options.create ?? true) mkdirSync(dir, { recursive: true });
 	return dir;
 }
 

@@ -1,4 +1,5 @@
-// What the drill editor needs: the mappings a teacher can play drills on, each with its pads.
+// What the drill editor needs: the mappings a teacher can play drills on, each with its pads and
+// its versions (newest first), so the teacher can choose the version a drill is played on.
 import type { Database } from './db';
 import { getMapping, listMappings } from './mappings';
 
@@ -14,7 +15,8 @@ export async function editorMappings(db: Database, userId: string) {
 				tempo: detail.document.tempo ?? 120,
 				pads: detail.document.profile.inputs
 					.filter((i) => i.kind === 'pad' || i.kind === 'button')
-					.map((i) => ({ id: i.id, label: i.label ?? i.id }))
+					.map((i) => ({ id: i.id, label: i.label ?? i.id })),
+				versions: detail.versions.map((v) => ({ version: v.version, createdAt: new Date(v.createdAt).toISOString() }))
 			};
 		})
 	);

@@ -1,7 +1,8 @@
 // Drills (DESIGN.md §4.8) and tries at them. A teacher owns a drill and pins the mapping version
 // it is played on; a student reaches a drill only through an assignment to a class they joined.
-// A try ("take") is one of the student's recorded sessions with the beat clock's zero of the
-// practice run; Padproof scores it here, on the server, with the engine's scoring.
+// A try ("take") is one of the student's recorded sessions whose beat clock's zero is beat 0 of
+// the drill (DESIGN.md §4.8); Padproof scores it here, on the server, with the engine's scoring.
+// Takes recorded before sessions carried that zero keep theirs in drill_take.zero.
 import {
 	parseDrill,
 	scoreDrill,
@@ -20,7 +21,7 @@ import { writeTransaction, type Database } from './db';
 import { assignment, classMember, drill, drillTake, mappingVersion, schoolClass, submission } from './db/schema';
 import { Refusal } from './http';
 import { getMapping, storedDocument } from './mappings';
-import { sessionDocument } from './rehearsals';
+import { finishRehearsal, sessionDocument } from './rehearsals';
 
 export type DrillRow = typeof drill.$inferSelect;
 
@@ -49,11 +50,20 @@ export function checkDrill(input: unknown, m: Mapping): DrillDocument {
 
 export const drillInput = z.object({
 	mappingId: z.string().min(1, { error: 'Choose the mapping the drill is played on.' }).max(64),
+	/** The mapping version the drill is played on; the newest when left out (the current one when saving). */
+	mappingVersion: z
+		.number({ error: 'Choose a version of the mapping.' })
+		.int({ error: 'Choose a version of the mapping.' })
+		.min(1, { error: 'Choose a version of the mapping.' })
+		.optional(),
 	document: z.unknown()
 });
 
+export const HAS_HAND_INS = 'This drill has hand-ins; duplicate it to change it.';
+
 export async function createDrill(db: Database, ownerId: string, input: z.infer<typeof drillInput>) {
-	const m = await getMapping(db, ownerId, input.mappingId);
+	// getMapping refuses a mapping the teacher may not read, and a version that is not the mapping's.
+	const m = await getMapping(db, ownerId, input.mappingId, input.mappingVersion);
 	const document = checkDrill(input.document, m.document);
 	const id = randomUUID();
 	await db
@@ -62,15 +72,61 @@ export async function createDrill(db: Database, ownerId: string, input: z.infer<
 	return id;
 }
 
-/** Saves a changed drill; it moves to the mapping's newest version. */
+/** Whether any student handed in a take of the drill (a submission to one of its assignments). */
+export async function hasHandIns(db: Database, drillId: string): Promise<boolean> {
+	const [one] = await db
+		.select({ id: submission.id })
+		.from(submission)
+		.innerJoin(assignment, eq(assignment.id, submission.assignmentId))
+		.where(eq(assignment.drillId, drillId))
+		.limit(1);
+	return Boolean(one);
+}
+
+/** The document without its name: what a score depends on. */
+const scored = (doc: DrillDocument) => JSON.stringify({ ...doc, name: '' });
+
+/**
+ * Saves a changed drill on the mapping version chosen; without a version it stays on the one it
+ * is played on (or, on another mapping, goes to that mapping's newest). Once the drill has
+ * hand-ins only its name may change: scores already handed in were counted against it (409).
+ */
 export async function updateDrill(db: Database, ownerId: string, id: string, input: z.infer<typeof drillInput>) {
-	await ownDrill(db, ownerId, id);
-	const m = await getMapping(db, ownerId, input.mappingId);
+	const row = await ownDrill(db, ownerId, id);
+	let version = input.mappingVersion;
+	if (version === undefined && input.mappingId === row.mappingId) {
+		const [pinned] = await db
+			.select({ version: mappingVersion.version })
+			.from(mappingVersion)
+			.where(eq(mappingVersion.id, row.mappingVersionId));
+		version = pinned?.version;
+	}
+	const m = await getMapping(db, ownerId, input.mappingId, version);
 	const document = checkDrill(input.document, m.document);
+	const before = parseDrill(row.document);
+	const changed = m.versionId !== row.mappingVersionId || !before.ok || scored(before.drill) !== scored(document);
+	if (changed && (await hasHandIns(db, id))) throw new Refusal(409, HAS_HAND_INS);
 	await db
 		.update(drill)
 		.set({ mappingId: m.id, mappingVersionId: m.versionId, name: document.name, document })
 		.where(eq(drill.id, id));
+}
+
+/** A copy of one of the teacher's drills, on the same mapping version, to change freely. */
+export async function duplicateDrill(db: Database, ownerId: string, id: string): Promise<string> {
+	const row = await ownDrill(db, ownerId, id);
+	const doc = row.document as DrillDocument;
+	const name = `${doc.name} (copy)`.slice(0, 120);
+	const copy = randomUUID();
+	await db.insert(drill).values({
+		id: copy,
+		ownerId,
+		mappingId: row.mappingId,
+		mappingVersionId: row.mappingVersionId,
+		name,
+		document: { ...doc, name }
+	});
+	return copy;
 }
 
 /** How much hangs on a drill: its assignments, the takes handed in for them, and how many of those are graded. */
@@ -148,12 +204,17 @@ export async function drillFor(db: Database, userId: string, id: string) {
 	const [row] = await db.select().from(drill).where(eq(drill.id, id));
 	if (!row || !(await mayPlay(db, userId, row)))
 		throw new Refusal(404, 'That drill does not exist, or it is not given to you.');
+	return { row, ...(await drillBasis(db, row)) };
+}
+
+/** What a take of the drill is scored against: its document and the mapping version it is played on. */
+export async function drillBasis(db: Database, row: DrillRow) {
 	const [v] = await db.select().from(mappingVersion).where(eq(mappingVersion.id, row.mappingVersionId));
 	return {
-		row,
 		document: parseDrill(row.document).ok ? (row.document as DrillDocument) : checkStored(row.document),
 		mapping: storedDocument(v.document),
-		mappingVersion: v.version
+		mappingVersion: v.version,
+		mappingVersionId: v.id
 	};
 }
 
@@ -178,39 +239,53 @@ function checkStored(doc: unknown): DrillDocument {
 	return r.drill;
 }
 
-/** Scores a session against a drill with the beat clock zero of the practice run. */
-export function scoreTake(d: DrillDocument, m: Mapping, session: SessionDocument, zero: number) {
+/** Scores a session against a drill with beat 0 at `zero` on the session clock (its clock's zero by default). */
+export function scoreTake(d: DrillDocument, m: Mapping, session: SessionDocument, zero = session.clock.zero) {
 	return scoreDrill(d, m, session, { zero });
 }
 
 export const takeInput = z.object({
 	rehearsalId: z.string().min(1).max(64),
 	drillId: z.string().min(1).max(64),
+	/**
+	 * Where beat 0 of the drill fell, in ms on the session clock. Left out: the session clock's zero.
+	 * Given and elsewhere: the session's beat clock is moved there, so that the session document
+	 * says where beat 0 is (DESIGN.md §4.8) and scores the same wherever it is scored.
+	 */
 	zero: z
 		.number()
 		.min(0)
 		.max(24 * 3600 * 1000)
+		.optional()
 });
 
 /** Records one of the user's own sessions as a try at a drill, and scores it. */
 export async function recordTake(db: Database, userId: string, input: z.infer<typeof takeInput>) {
 	const d = await drillFor(db, userId, input.drillId);
-	const { session } = await sessionDocument(db, userId, input.rehearsalId);
-	const score = scoreSummary(scoreTake(d.document, d.mapping, session, input.zero));
+	let { row, session } = await sessionDocument(db, userId, input.rehearsalId);
+	if (input.zero !== undefined && Math.abs(input.zero - session.clock.zero) > 1e-3) {
+		if (row.status !== 'saved')
+			throw new Refusal(409, 'This session is still being recorded: finish it, then score it as a take.');
+		// The beat clock keeps its tempo changes; only where beat 0 lies moves. Findings are counted again.
+		await finishRehearsal(db, userId, row.id, undefined, { ...session.clock, zero: input.zero });
+		({ row, session } = await sessionDocument(db, userId, input.rehearsalId));
+	}
+	const zero = session.clock.zero;
+	const score = scoreSummary(scoreTake(d.document, d.mapping, session, zero));
 	await db
 		.insert(drillTake)
 		.values({
 			rehearsalId: input.rehearsalId,
 			drillId: input.drillId,
 			userId,
-			zero: input.zero,
+			zero,
 			score,
 			hitRate: score.hitRate,
 			pass: score.pass
 		})
 		.onConflictDoUpdate({
 			target: drillTake.rehearsalId,
-			set: { drillId: input.drillId, zero: input.zero, score, hitRate: score.hitRate, pass: score.pass }
+			set: { drillId: input.drillId, zero, score, hitRate: score.hitRate, pass: score.pass }
 		});
 	return score;
 }

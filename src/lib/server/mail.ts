@@ -1,6 +1,6 @@
 import { simpleParser } from 'mailparser';
 import nodemailer from 'nodemailer';
-import { mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { outboxDir } from './config';
 
@@ -38,9 +38,13 @@ export interface OutboxEntry {
 	body: string;
 }
 
-/** The newest messages of the local outbox, decoded (headers, transfer encodings, charsets). */
+/**
+ * The newest messages of the local outbox, decoded (headers, transfer encodings, charsets). Before
+ * the first message there is no outbox folder yet: that is an empty outbox, and reading makes none.
+ */
 export async function readOutbox(limit = 50): Promise<OutboxEntry[]> {
-	const dir = outboxDir();
+	const dir = outboxDir({ create: false });
+	if (!existsSync(dir)) return [];
 	const files = readdirSync(dir)
 		.filter((f) => f.endsWith('.eml'))
 		.sort()

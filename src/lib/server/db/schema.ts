@@ -272,6 +272,11 @@ export const submission = sqliteTable(
 		score: text({ mode: 'json' }).notNull(),
 		hitRate: real().notNull(),
 		pass: integer({ mode: 'boolean' }).notNull(),
+		// What the score was counted against when it was handed in: beat 0 on the session clock, the
+		// drill document and the mapping version. Null for hand-ins from before they were kept.
+		zero: real(),
+		drillDocument: text({ mode: 'json' }),
+		mappingVersionId: text(),
 		audioFile: text(),
 		audioType: text(),
 		grade: text(),

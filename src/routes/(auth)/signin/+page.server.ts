@@ -1,5 +1,7 @@
 import { attemptSucceeded, authCode, refuseAttempt } from '$lib/server/attempts';
 import { auth } from '$lib/server/auth';
+import { joinAfterSignIn } from '$lib/server/classes';
+import { db } from '$lib/server/db';
 import { safeNext } from '$lib/server/next';
 import { currentPassword, email, formObject, validate, type FieldErrors } from '$lib/server/validate';
 import { fail, redirect } from '@sveltejs/kit';
@@ -20,8 +22,9 @@ export const actions: Actions = {
 		const values = { email: parsed.data.email, errors: {} as FieldErrors };
 		const refused = await refuseAttempt(event, 'sign-in', parsed.data.email);
 		if (refused) return fail(429, { ...values, message: refused });
+		let who;
 		try {
-			await auth.api.signInEmail({ body: parsed.data, headers: request.headers });
+			({ user: who } = await auth.api.signInEmail({ body: parsed.data, headers: request.headers }));
 		} catch (e) {
 			if (authCode(e) === 'BANNED_USER') {
 				return fail(403, {
@@ -35,6 +38,7 @@ export const actions: Actions = {
 			throw e;
 		}
 		await attemptSucceeded(parsed.data.email);
-		redirect(303, next);
+		// From an invitation link to this address: joined at once, no second click.
+		redirect(303, await joinAfterSignIn(db, who, next));
 	}
 };

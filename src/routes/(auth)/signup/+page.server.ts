@@ -1,6 +1,8 @@
 import { welcomeMail, sendCourtesyMail } from '$lib/server/account-mail';
 import { authCode, refuseAttempt } from '$lib/server/attempts';
 import { auth } from '$lib/server/auth';
+import { joinAfterSignIn } from '$lib/server/classes';
+import { db } from '$lib/server/db';
 import { safeNext } from '$lib/server/next';
 import { passwordProblem } from '$lib/server/passwords';
 import { email, formObject, newPasswordText, personName, validate, type FieldErrors } from '$lib/server/validate';
@@ -29,8 +31,12 @@ export const actions: Actions = {
 		const { name, email: address, password: secret } = parsed.data;
 		const refused = await refuseAttempt(event, 'sign-up');
 		if (refused) return fail(429, { ...values, errors: {} as FieldErrors, message: refused });
+		let who;
 		try {
-			await auth.api.signUpEmail({ body: { name, email: address, password: secret }, headers: request.headers });
+			({ user: who } = await auth.api.signUpEmail({
+				body: { name, email: address, password: secret },
+				headers: request.headers
+			}));
 		} catch (e) {
 			if (e instanceof APIError) {
 				if (authCode(e).startsWith('USER_ALREADY_EXISTS')) {
@@ -43,6 +49,7 @@ export const actions: Actions = {
 		}
 		// The account exists and the person is signed in: a mail that cannot go out is no reason to fail.
 		await sendCourtesyMail({ to: address, ...welcomeMail(name) });
-		redirect(303, next);
+		// From an invitation link to this address: joined at once, no second click.
+		redirect(303, await joinAfterSignIn(db, who, next));
 	}
 };

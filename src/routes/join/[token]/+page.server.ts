@@ -29,7 +29,7 @@ export const actions: Actions = {
 		if (!me) redirect(303, `/signin?next=${encodeURIComponent(`/join/${params.token}`)}`);
 		try {
 			const classId = await acceptInvitation(db, me, params.token);
-			redirect(303, `/classes/${classId}`);
+			redirect(303, `/classes/${classId}?joined=1`);
 		} catch (e) {
 			if (e instanceof Refusal) return fail(e.status, { message: e.message });
 			throw e;

@@ -21,13 +21,15 @@ import { fail } from '@sveltejs/kit';
 import { z } from 'zod';
 import type { Actions, PageServerLoad } from './$types';
 
-export const load: PageServerLoad = async ({ locals, params }) => {
+export const load: PageServerLoad = async ({ locals, params, url }) => {
 	const user = requireArea(locals, 'app');
 	const c = await classFor(db, user.id, params.id).catch(pageRefusal);
 	const shared = await sharedMappings(db, c.id);
 	if (c.role === 'student') {
 		const due = (await assignmentsOf(db, user.id)).filter((a) => a.classId === c.id);
-		return { c: { id: c.id, name: c.name, teacher: c.teacher, role: c.role }, shared, due, teacher: null };
+		// ?joined=1: the invitation link just brought the student in.
+		const joined = url.searchParams.get('joined') === '1';
+		return { c: { id: c.id, name: c.name, teacher: c.teacher, role: c.role }, shared, due, teacher: null, joined };
 	}
 	const [people, invites, assignments, drills, mappings] = await Promise.all([
 		roster(db, c.id),
@@ -40,6 +42,7 @@ export const load: PageServerLoad = async ({ locals, params }) => {
 		c: { id: c.id, name: c.name, teacher: c.teacher, role: c.role },
 		shared,
 		due: [],
+		joined: false,
 		teacher: {
 			joinCode: c.joinCode,
 			people,

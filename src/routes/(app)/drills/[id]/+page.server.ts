@@ -1,4 +1,4 @@
-import { classesOf, deleteDrill, drillFor, drillUse, ownDrill, updateDrill } from '$lib/server/drills';
+import { classesOf, deleteDrill, drillFor, drillUse, duplicateDrill, ownDrill, updateDrill } from '$lib/server/drills';
 import { db } from '$lib/server/db';
 import { editorMappings } from '$lib/server/drill-editor';
 import { pageRefusal, Refusal } from '$lib/server/http';
@@ -17,7 +17,13 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 		drillUse(db, row.id)
 	]);
 	return {
-		drill: { id: row.id, mappingId: row.mappingId, document: d.document, mappingVersion: d.mappingVersion },
+		drill: {
+			id: row.id,
+			mappingId: row.mappingId,
+			document: d.document,
+			mappingVersion: d.mappingVersion,
+			locked: use.handIns > 0
+		},
 		mappings,
 		classes,
 		use,
@@ -37,6 +43,11 @@ export const actions: Actions = {
 			if (e instanceof Refusal) return fail(e.status, { message: e.message });
 			throw e;
 		}
+	},
+	duplicate: async ({ locals, params }) => {
+		const user = requireArea(locals, 'teaching');
+		const id = await duplicateDrill(db, user.id, params.id).catch(pageRefusal);
+		redirect(303, `/drills/${id}`);
 	},
 	delete: async ({ locals, params }) => {
 		const user = requireArea(locals, 'teaching');

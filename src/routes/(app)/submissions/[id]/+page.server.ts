@@ -1,29 +1,25 @@
 import { scoreSummary } from '$lib/engine';
-import { review, reviewInput, submissionFor } from '$lib/server/assignments';
+import { review, reviewInput, submissionBreakdown } from '$lib/server/assignments';
 import { publicOrigin } from '$lib/server/config';
 import { db } from '$lib/server/db';
-import { mappingVersion } from '$lib/server/db/schema';
-import { scoreTake, takeOf } from '$lib/server/drills';
 import { pageRefusal, Refusal } from '$lib/server/http';
-import { storedDocument } from '$lib/server/mappings';
-import { getRehearsal } from '$lib/server/rehearsals';
 import { requireArea } from '$lib/server/roles';
 import { formObject, validate } from '$lib/server/validate';
-import { parseDrill } from '$lib/engine';
 import { fail } from '@sveltejs/kit';
-import { eq } from 'drizzle-orm';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, params }) => {
 	const user = requireArea(locals, 'app');
-	const s = await submissionFor(db, user.id, params.id).catch(pageRefusal);
-	// Access was granted through the submission: read the session as its owner would.
-	const { row, session } = await getRehearsal(db, s.studentId, s.rehearsalId).catch(pageRefusal);
-	const drill = parseDrill(s.drill.document);
-	const [v] = await db.select().from(mappingVersion).where(eq(mappingVersion.id, s.drill.mappingVersionId));
-	const mapping = v ? storedDocument(v.document) : null;
-	const take = await takeOf(db, s.rehearsalId);
-	const detail = drill.ok && mapping ? scoreTake(drill.drill, mapping, session, take?.zero ?? 0) : null;
+	// Worked out against what the stored score was counted against, so the two always agree.
+	const {
+		submission: s,
+		row,
+		session,
+		drill,
+		mapping,
+		zero,
+		detail
+	} = await submissionBreakdown(db, user.id, params.id).catch(pageRefusal);
 	return {
 		submission: {
 			id: s.id,
@@ -44,13 +40,13 @@ export const load: PageServerLoad = async ({ locals, params }) => {
 			rehearsalId: s.rehearsalId,
 			sessionName: row.name
 		},
-		drill: drill.ok ? drill.drill : null,
+		drill,
 		detail: detail
 			? { ...scoreSummary(detail), targets: detail.targets, presses: detail.presses, extraPresses: detail.extraPresses }
 			: null,
 		mapping,
 		document: session,
-		zero: take?.zero ?? 0
+		zero
 	};
 };
 
