@@ -205,7 +205,7 @@ export async function submit(
 	const late = now.getTime() > a.dueAt.getTime();
 	const basis = await drillBasis(db, a.drill);
 	const { session } = await sessionDocument(db, student.id, rehearsalId);
-	const score = scoreSummary(scoreTake(basis.document, basis.mapping, session, take.take.zero));
+	const score = scoreSummary(await scoreTake(basis.document, basis.mapping, session, take.take.zero));
 	if (JSON.stringify(score) !== JSON.stringify(take.take.score))
 		await db
 			.update(drillTake)
@@ -286,7 +286,7 @@ export async function submissionBreakdown(db: Database, userId: string, id: stri
 		const [take] = await db.select().from(drillTake).where(eq(drillTake.rehearsalId, s.rehearsalId));
 		zero = take?.zero ?? 0;
 	}
-	const detail = drillDoc && mapping ? scoreTake(drillDoc, mapping, session, zero) : null;
+	const detail = drillDoc && mapping ? await scoreTake(drillDoc, mapping, session, zero) : null;
 	return { submission: s, row, session, drill: drillDoc, mapping, zero, detail };
 }
 

@@ -5,7 +5,7 @@
 // Takes recorded before sessions carried that zero keep theirs in drill_take.zero.
 import {
 	parseDrill,
-	scoreDrill,
+	type Score,
 	scoreSummary,
 	type DrillDocument,
 	type Mapping,
@@ -21,6 +21,7 @@ import { writeTransaction, type Database } from './db';
 import { assignment, classMember, drill, drillTake, mappingVersion, schoolClass, submission } from './db/schema';
 import { Refusal } from './http';
 import { getMapping, storedDocument } from './mappings';
+import { scoreOffThread } from './analysis/pool';
 import { finishRehearsal, sessionDocument } from './rehearsals';
 
 export type DrillRow = typeof drill.$inferSelect;
@@ -239,9 +240,17 @@ function checkStored(doc: unknown): DrillDocument {
 	return r.drill;
 }
 
-/** Scores a session against a drill with beat 0 at `zero` on the session clock (its clock's zero by default). */
-export function scoreTake(d: DrillDocument, m: Mapping, session: SessionDocument, zero = session.clock.zero) {
-	return scoreDrill(d, m, session, { zero });
+/**
+ * Scores a session against a drill with beat 0 at `zero` on the session clock (its clock's zero by
+ * default), in a worker thread: a long drill takes tens of milliseconds that other requests need.
+ */
+export function scoreTake(
+	d: DrillDocument,
+	m: Mapping,
+	session: SessionDocument,
+	zero = session.clock.zero
+): Promise<Score> {
+	return scoreOffThread({ drill: d, mapping: m, session, zero });
 }
 
 export const takeInput = z.object({
@@ -271,7 +280,7 @@ export async function recordTake(db: Database, userId: string, input: z.infer<ty
 		({ row, session } = await sessionDocument(db, userId, input.rehearsalId));
 	}
 	const zero = session.clock.zero;
-	const score = scoreSummary(scoreTake(d.document, d.mapping, session, zero));
+	const score = scoreSummary(await scoreTake(d.document, d.mapping, session, zero));
 	await db
 		.insert(drillTake)
 		.values({
