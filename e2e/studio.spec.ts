@@ -504,8 +504,8 @@ test('a private mapping a teacher shares with a class is listed to the class, re
 	const kai = await secondPerson(browser);
 	await signIn(kai.page, 'student');
 	await open(kai.page, '/mappings');
+	// (Other tests put Kai in classes of their own; none of them has this mapping.)
 	await expect(kai.page.getByTestId('mapping-row').filter({ hasText: name })).toHaveCount(0);
-	await expect(kai.page.getByTestId('mappings-classes')).toContainText('Nothing is shared with your classes');
 	await lena.context.close();
 	await kai.context.close();
 });
